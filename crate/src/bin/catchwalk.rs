@@ -1,0 +1,235 @@
+//! The `catchwalk` command line: parses arguments, reads files, calls the library, writes
+//! files and prints. No audit logic lives here.
+
+use catchwalk::config::Config;
+use catchwalk::export;
+use catchwalk::input::{HomesFormat, Preset, RawLayers};
+use catchwalk::pipeline::{run_audit, Progress, Stage};
+use clap::{Args, Parser, Subcommand, ValueEnum};
+use indicatif::{ProgressBar, ProgressStyle};
+use std::io::IsTerminal;
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+use std::time::Instant;
+
+/// Audits children's walking routes to school: which children live within walking distance,
+/// the route they would walk, what it makes them cross, and how risky that is.
+///
+/// A screening tool for planning: it does not replace a site assessment, engineering
+/// judgement, local design codes or a licensed traffic engineer.
+#[derive(Parser)]
+#[command(name = "catchwalk", version, about, long_about)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {
+    /// Route every home to its school and write the audit (summary.json, homes.csv,
+    /// routes.geojson, qa.geojson, centrelines.geojson) to --out.
+    Audit {
+        #[command(flatten)]
+        layers: LayerArgs,
+        /// Folder for the outputs (created if missing).
+        #[arg(long, value_name = "DIR")]
+        out: PathBuf,
+    },
+    /// Validate the layers and report network QA only (qa.geojson to --out if given).
+    Check {
+        #[command(flatten)]
+        layers: LayerArgs,
+        #[arg(long, value_name = "DIR")]
+        out: Option<PathBuf>,
+    },
+}
+
+#[derive(Clone, Copy, ValueEnum)]
+enum PresetArg {
+    /// OpenStreetMap tags (highway, maxspeed, sidewalk, crossing, ...).
+    Osm,
+    /// catchwalk's own property names (class, speed_kmh, sidewalk, control, ...).
+    Plain,
+}
+
+#[derive(Args)]
+struct LayerArgs {
+    /// Streets: GeoJSON LineStrings in WGS84 longitude/latitude.
+    #[arg(long, value_name = "FILE")]
+    streets: PathBuf,
+    /// Schools: GeoJSON Points or Polygons.
+    #[arg(long, value_name = "FILE")]
+    schools: PathBuf,
+    /// Homes: GeoJSON Points, or CSV with lon/lat columns (by the .csv extension).
+    #[arg(long, value_name = "FILE")]
+    homes: PathBuf,
+    /// Crossing points: GeoJSON Points with their traffic control.
+    #[arg(long, value_name = "FILE")]
+    crossings: Option<PathBuf>,
+    /// Catchment polygons carrying the school id.
+    #[arg(long, value_name = "FILE")]
+    catchments: Option<PathBuf>,
+    /// How property names are read.
+    #[arg(long, value_enum, default_value = "plain")]
+    preset: PresetArg,
+    /// A field-mapping file (JSON) for a layer with its own property names.
+    #[arg(long, value_name = "FILE")]
+    mapping: Option<PathBuf>,
+    /// A config file (JSON) overriding defaults (walk zone, walking speed, detour cap, ...).
+    #[arg(long, value_name = "FILE")]
+    config: Option<PathBuf>,
+}
+
+fn read(path: &Path) -> Result<String, String> {
+    std::fs::read_to_string(path).map_err(|e| format!("cannot read {}: {e}", path.display()))
+}
+
+fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
+    path.as_deref().map(read).transpose()
+}
+
+fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
+    let homes_format = match a.homes.extension().and_then(|e| e.to_str()) {
+        Some(e) if e.eq_ignore_ascii_case("csv") => HomesFormat::Csv,
+        _ => HomesFormat::GeoJson,
+    };
+    let raw = RawLayers {
+        streets: read(&a.streets)?,
+        crossings: read_opt(&a.crossings)?,
+        schools: read(&a.schools)?,
+        homes: read(&a.homes)?,
+        homes_format,
+        catchments: read_opt(&a.catchments)?,
+        preset: match a.preset {
+            PresetArg::Osm => Preset::Osm,
+            PresetArg::Plain => Preset::Plain,
+        },
+        mapping: read_opt(&a.mapping)?,
+    };
+    let config = match &a.config {
+        Some(p) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,
+        None => Config::default(),
+    };
+    Ok((raw, config))
+}
+
+/// A terminal progress bar, silent when stderr is not a terminal.
+struct Bar {
+    bar: ProgressBar,
+    start: Instant,
+    stage: Option<Stage>,
+}
+
+impl Bar {
+    fn new() -> Self {
+        let bar = if std::io::stderr().is_terminal() {
+            ProgressBar::new(1)
+        } else {
+            ProgressBar::hidden()
+        };
+        bar.set_style(
+            ProgressStyle::with_template("{msg:>10} [{bar:30}] {pos}/{len} {elapsed}")
+                .unwrap_or_else(|_| ProgressStyle::default_bar())
+                .progress_chars("=> "),
+        );
+        Bar {
+            bar,
+            start: Instant::now(),
+            stage: None,
+        }
+    }
+}
+
+impl Progress for Bar {
+    fn report(&mut self, stage: Stage, done: usize, total: usize) -> bool {
+        if self.stage != Some(stage) {
+            self.stage = Some(stage);
+            self.bar.set_message(format!("{stage:?}").to_lowercase());
+        }
+        self.bar.set_length(total as u64);
+        self.bar.set_position(done as u64);
+        true
+    }
+    fn now_ms(&self) -> f64 {
+        self.start.elapsed().as_secs_f64() * 1000.0
+    }
+}
+
+fn write(dir: &Path, name: &str, text: &str) -> Result<(), String> {
+    let p = dir.join(name);
+    std::fs::write(&p, text).map_err(|e| format!("cannot write {}: {e}", p.display()))
+}
+
+fn json(v: &serde_json::Value) -> String {
+    serde_json::to_string_pretty(v).unwrap_or_default()
+}
+
+fn run(cli: Cli) -> Result<(), String> {
+    match cli.command {
+        Command::Audit { layers, out } => {
+            let (raw, config) = raw_layers(&layers)?;
+            let mut bar = Bar::new();
+            let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
+            bar.bar.finish_and_clear();
+            std::fs::create_dir_all(&out)
+                .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
+            write(&out, "summary.json", &json(&export::summary_json(&result)))?;
+            write(&out, "homes.csv", &export::homes_csv(&result))?;
+            write(
+                &out,
+                "routes.geojson",
+                &json(&export::routes_geojson(&result)),
+            )?;
+            write(&out, "qa.geojson", &json(&export::qa_geojson(&result)))?;
+            write(
+                &out,
+                "centrelines.geojson",
+                &json(&export::centrelines_geojson(&result)),
+            )?;
+            for w in &result.warnings {
+                eprintln!("warning: {w}");
+            }
+            println!(
+                "audited {} homes for {} schools in {:.0} ms; wrote {}",
+                result.homes.len(),
+                result.layers.schools.len(),
+                result.timings.total_ms,
+                out.display()
+            );
+            println!("{}", catchwalk::CAUTION);
+            Ok(())
+        }
+        Command::Check { layers, out } => {
+            let (raw, config) = raw_layers(&layers)?;
+            let mut bar = Bar::new();
+            let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
+            bar.bar.finish_and_clear();
+            for w in &result.warnings {
+                eprintln!("warning: {w}");
+            }
+            let s = export::summary_json(&result);
+            println!(
+                "{}",
+                json(
+                    &serde_json::json!({ "network": s["network"], "qa": s["qa"], "warnings": result.warnings.len() })
+                )
+            );
+            if let Some(out) = out {
+                std::fs::create_dir_all(&out)
+                    .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
+                write(&out, "qa.geojson", &json(&export::qa_geojson(&result)))?;
+            }
+            Ok(())
+        }
+    }
+}
+
+fn main() -> ExitCode {
+    match run(Cli::parse()) {
+        Ok(()) => ExitCode::SUCCESS,
+        Err(e) => {
+            eprintln!("catchwalk: {e}");
+            ExitCode::FAILURE
+        }
+    }
+}

@@ -1,0 +1,97 @@
+//! Every tunable default in one place, each with where it comes from.
+//! A config file (JSON) may override any subset; absent fields keep these defaults.
+
+use serde::{Deserialize, Serialize};
+
+/// Network building.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct NetworkConfig {
+    /// Vertices closer than this merge, within the same vertical layer (DESIGN.md default).
+    pub snap_tolerance_m: f64,
+    /// A crossing point this close to a junction attaches to it; farther, it splits the
+    /// segment into a mid-block crossing (DESIGN.md default).
+    pub crossing_attach_m: f64,
+    /// Lane width used for crossing widths when the layer gives none (common practice).
+    pub lane_width_m: f64,
+    /// Homes and schools farther than this from any walkable edge are reported unreachable.
+    pub max_attach_m: f64,
+    /// Components with fewer segments than this are reported as tiny in network QA.
+    pub tiny_component_segments: usize,
+    /// Two dangling ends in the same layer closer than this (but not merged) are near-misses.
+    pub near_miss_m: f64,
+}
+
+impl Default for NetworkConfig {
+    fn default() -> Self {
+        NetworkConfig {
+            snap_tolerance_m: 0.5,
+            crossing_attach_m: 15.0,
+            lane_width_m: 3.6,
+            max_attach_m: 300.0,
+            tiny_component_segments: 5,
+            near_miss_m: 5.0,
+        }
+    }
+}
+
+/// Routing.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct RouteConfig {
+    /// The recommended route may be at most this many times the shortest walked length;
+    /// over it the shortest stands and the home is flagged (DESIGN.md default).
+    pub detour_cap: f64,
+    /// Metres of walking that one risk point is worth in the recommended route's cost.
+    pub metres_per_risk_point: f64,
+}
+
+impl Default for RouteConfig {
+    fn default() -> Self {
+        RouteConfig {
+            detour_cap: 1.5,
+            metres_per_risk_point: 250.0,
+        }
+    }
+}
+
+/// Benefit of walking.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct BenefitConfig {
+    /// A child's walking speed: 3.5 ft/s = 1.07 m/s, the usual signal-timing value
+    /// (common practice).
+    pub walking_speed_mps: f64,
+    /// Network distance that defines the walk zone (common practice: about one mile).
+    pub walk_zone_m: f64,
+}
+
+impl Default for BenefitConfig {
+    fn default() -> Self {
+        BenefitConfig {
+            walking_speed_mps: 1.07,
+            walk_zone_m: 1600.0,
+        }
+    }
+}
+
+/// The whole configuration.
+#[derive(Debug, Clone, PartialEq, Default, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct Config {
+    pub network: NetworkConfig,
+    pub route: RouteConfig,
+    pub benefit: BenefitConfig,
+    pub risk: crate::risk::RiskConfig,
+}
+
+impl Config {
+    /// Reads a JSON config; unknown fields are refused so a typo does not pass silently.
+    pub fn from_json(text: &str) -> crate::error::Result<Config> {
+        serde_json::from_str(text).map_err(|e| {
+            crate::error::Error::Config(format!(
+                "config: {e}; see DEVELOPERS.md for the fields and their defaults"
+            ))
+        })
+    }
+}

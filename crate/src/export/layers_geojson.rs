@@ -1,0 +1,118 @@
+//! GeoJSON exports: routes, network QA, and the noded centrelines (for checks and the map).
+
+use super::geometry::route_line;
+use super::round2;
+use crate::input::LonLat;
+use crate::pipeline::{AuditOutput, AuditedRoute};
+use serde_json::{json, Map, Value};
+
+fn collection(features: Vec<Value>) -> Value {
+    json!({ "type": "FeatureCollection", "caution": crate::CAUTION, "features": features })
+}
+
+fn line(coords: &[LonLat]) -> Value {
+    json!({ "type": "LineString", "coordinates": coords })
+}
+
+fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: bool) -> Value {
+    let h = &out.homes[home];
+    let a = &r.audit;
+    let mut props = Map::new();
+    props.insert("home_id".into(), json!(out.layers.homes[home].id));
+    props.insert(
+        "school_id".into(),
+        json!(h
+            .assignment
+            .school
+            .map(|s| out.layers.schools[s].id.clone())),
+    );
+    props.insert("children".into(), json!(out.layers.homes[home].children));
+    props.insert("kind".into(), json!(r.kind.as_str()));
+    props.insert("network_m".into(), json!(round2(a.network_m)));
+    props.insert("walked_m".into(), json!(round2(a.walked_m)));
+    props.insert(
+        "walking_time_min".into(),
+        json!(round2(
+            a.walked_m / out.config.benefit.walking_speed_mps / 60.0
+        )),
+    );
+    props.insert("crossings".into(), json!(a.crossings.len()));
+    props.insert("crossings_by_device".into(), json!(a.crossings_by_device()));
+    props.insert(
+        "uncontrolled_crossings".into(),
+        json!(a.uncontrolled_crossings),
+    );
+    props.insert("arterial_crossings".into(), json!(a.arterial_crossings));
+    props.insert(
+        "arterial_exposure_m".into(),
+        json!(round2(a.arterial_exposure_m)),
+    );
+    props.insert("along_le30_m".into(), json!(round2(a.along_le30_m)));
+    props.insert("along_31_50_m".into(), json!(round2(a.along_31_50_m)));
+    props.insert("along_gt50_m".into(), json!(round2(a.along_gt50_m)));
+    props.insert("no_sidewalk_m".into(), json!(round2(a.no_sidewalk_m)));
+    props.insert("risk".into(), json!((r.risk * 1e4).round() / 1e4));
+    props.insert("over_detour_cap".into(), json!(over_cap));
+    json!({
+        "type": "Feature",
+        "geometry": line(&route_line(&out.network.graph, &r.route.steps)),
+        "properties": props,
+    })
+}
+
+/// One LineString per home and route kind, with the route's figures. Personal data: homes
+/// are individual here, so this export stays on the planner's machine.
+pub fn routes_geojson(out: &AuditOutput) -> Value {
+    let mut features = Vec::new();
+    for (i, h) in out.homes.iter().enumerate() {
+        if let Some(r) = &h.shortest {
+            features.push(route_feature(out, i, r, false));
+        }
+        if let Some(r) = &h.recommended {
+            features.push(route_feature(out, i, r, h.over_detour_cap));
+        }
+    }
+    collection(features)
+}
+
+/// Network QA findings as points.
+pub fn qa_geojson(out: &AuditOutput) -> Value {
+    let features = out
+        .network
+        .qa
+        .items
+        .iter()
+        .map(|q| {
+            json!({
+                "type": "Feature",
+                "geometry": { "type": "Point", "coordinates": q.at },
+                "properties": { "kind": q.kind, "feature": q.feature, "message": q.message },
+            })
+        })
+        .collect();
+    collection(features)
+}
+
+/// The noded centreline graph: one LineString per segment with its end junctions and
+/// geodesic length, so an outside graph library can recompute shortest paths.
+pub fn centrelines_geojson(out: &AuditOutput) -> Value {
+    let g = &out.network.graph;
+    let features = g
+        .segments
+        .iter()
+        .enumerate()
+        .map(|(i, s)| {
+            let st = &out.layers.streets[s.street];
+            json!({
+                "type": "Feature",
+                "geometry": line(&s.line),
+                "properties": {
+                    "segment": i, "from": s.from, "to": s.to, "length_m": s.length_m,
+                    "street_id": st.id, "class": st.class.as_str(), "speed_kmh": st.speed_kmh,
+                    "lanes": st.lanes, "layer": st.layer,
+                },
+            })
+        })
+        .collect();
+    collection(features)
+}

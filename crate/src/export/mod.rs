@@ -1,0 +1,16 @@
+//! Exports: tables as CSV, layers as GeoJSON, the summary as JSON. Each is a plain function
+//! of the [`AuditOutput`](crate::pipeline::AuditOutput); writing files is the caller's job.
+
+pub mod geometry;
+pub mod homes_csv;
+pub mod layers_geojson;
+pub mod summary;
+
+pub use homes_csv::homes_csv;
+pub use layers_geojson::{centrelines_geojson, qa_geojson, routes_geojson};
+pub use summary::summary_json;
+
+/// Rounds metres (and other figures) for output: two decimals is centimetres.
+pub(crate) fn round2(x: f64) -> f64 {
+    (x * 100.0).round() / 100.0
+}

@@ -1,0 +1,107 @@
+//! `summary.json`: network figures, QA counts, per-school figures, timings.
+
+use super::round2;
+use crate::network::qa::QaKind;
+use crate::network::PedEdgeKind;
+use crate::pipeline::AuditOutput;
+use serde_json::{json, Value};
+
+fn mean(xs: &[(f64, f64)]) -> Option<f64> {
+    let w: f64 = xs.iter().map(|x| x.1).sum();
+    (w > 0.0).then(|| xs.iter().map(|x| x.0 * x.1).sum::<f64>() / w)
+}
+
+/// The summary document.
+pub fn summary_json(out: &AuditOutput) -> Value {
+    let g = &out.network.graph;
+    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.edges.iter().filter(|e| f(&e.kind)).count();
+    let qa = &out.network.qa;
+    let walk_zone = out.config.benefit.walk_zone_m;
+    let schools: Vec<Value> = out
+        .layers
+        .schools
+        .iter()
+        .enumerate()
+        .map(|(s, school)| {
+            let members: Vec<_> = out
+                .homes
+                .iter()
+                .enumerate()
+                .filter(|(_, h)| h.assignment.school == Some(s))
+                .collect();
+            let children: u32 = members
+                .iter()
+                .map(|(i, _)| out.layers.homes[*i].children)
+                .sum();
+            let routed: Vec<(f64, f64, f64, f64)> = members
+                .iter()
+                .filter_map(|(i, h)| {
+                    let w = out.layers.homes[*i].children as f64;
+                    h.recommended
+                        .as_ref()
+                        .zip(h.shortest.as_ref())
+                        .map(|(r, sh)| {
+                            (
+                                sh.audit.network_m,
+                                r.audit.uncontrolled_crossings as f64,
+                                r.risk,
+                                w,
+                            )
+                        })
+                })
+                .collect();
+            let in_zone: f64 = routed
+                .iter()
+                .filter(|r| r.0 <= walk_zone)
+                .map(|r| r.3)
+                .sum();
+            let len: Vec<(f64, f64)> = routed.iter().map(|r| (r.0, r.3)).collect();
+            let unc: Vec<(f64, f64)> = routed.iter().map(|r| (r.1, r.3)).collect();
+            let risk: Vec<(f64, f64)> = routed.iter().map(|r| (r.2, r.3)).collect();
+            json!({
+                "id": school.id,
+                "name": school.name,
+                "homes": members.len(),
+                "children": children,
+                "children_routed": routed.iter().map(|r| r.3).sum::<f64>(),
+                "children_in_walk_zone": in_zone,
+                "mean_shortest_network_m": mean(&len).map(round2),
+                "mean_uncontrolled_crossings": mean(&unc).map(round2),
+                "mean_risk_per_trip": mean(&risk).map(|x| (x * 1e4).round() / 1e4),
+                "entrances_attached": out.school_att[s].len(),
+            })
+        })
+        .collect();
+    json!({
+        "caution": crate::CAUTION,
+        "network": {
+            "streets": out.layers.streets.len(),
+            "junctions": g.junctions.len(),
+            "segments": g.segments.len(),
+            "corners": g.corners.len(),
+            "side_edges": count(&|k| matches!(k, PedEdgeKind::Side { .. })),
+            "path_edges": count(&|k| matches!(k, PedEdgeKind::Path { .. })),
+            "crossing_edges": count(&|k| matches!(k, PedEdgeKind::Crossing { .. })),
+            "midblock_crossings": count(&|k| matches!(k, PedEdgeKind::Crossing { midblock: true, .. })),
+            "length_km": round2(g.segments.iter().map(|s| s.length_m).sum::<f64>() / 1000.0),
+            "crossing_points": out.layers.crossings.len(),
+        },
+        "qa": {
+            "components": qa.components,
+            "largest_component_share": qa.largest_component_share,
+            "dangling_ends": qa.count(QaKind::DanglingEnd),
+            "near_misses": qa.count(QaKind::NearMiss),
+            "tiny_components": qa.count(QaKind::TinyComponent),
+            "unattached_crossings": qa.count(QaKind::UnattachedCrossing),
+            "unreachable_schools": qa.count(QaKind::UnreachableSchool),
+            "unreachable_homes": qa.count(QaKind::UnreachableHome),
+        },
+        "warnings": out.warnings.len(),
+        "homes": out.layers.homes.len(),
+        "children": out.layers.homes.iter().map(|h| h.children).sum::<u32>(),
+        "walk_zone_m": walk_zone,
+        "schools": schools,
+        "timings_ms": out.timings,
+        "config": out.config,
+    })
+}

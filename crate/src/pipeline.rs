@@ -1,0 +1,327 @@
+//! The whole audit as one plain function: layers in, every stage's output out.
+//! The CLI, the wasm bindings and the tests all call [`run_audit`].
+
+use crate::audit::{audit_route, RouteAudit};
+use crate::config::Config;
+use crate::error::{Error, Result, Warning};
+use crate::input::{read_layers, Layers, RawLayers};
+use crate::network::qa::{QaItem, QaKind};
+use crate::network::{build_network, Attachment, Network};
+use crate::risk::edge_risk_points;
+use crate::route::assign::{assign_schools, Assignment};
+use crate::route::path::{entrance_sources, route_to_school};
+use crate::route::tree::Tree;
+use crate::route::{Route, RouteKind};
+use serde::Serialize;
+use std::collections::HashMap;
+
+/// The stages a long audit reports progress on.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Stage {
+    Parsing,
+    Network,
+    Routing,
+    Scoring,
+}
+
+/// Progress, cancellation and a clock, supplied by the caller (terminal, worker or test).
+pub trait Progress {
+    /// Reports `done` of `total` in `stage`; return `false` to cancel.
+    fn report(&mut self, stage: Stage, done: usize, total: usize) -> bool;
+    /// Milliseconds from any fixed start (the core has no clock of its own on wasm).
+    fn now_ms(&self) -> f64;
+}
+
+/// A `Progress` that reports nothing and has no clock (timings read 0).
+pub struct Silent;
+impl Progress for Silent {
+    fn report(&mut self, _: Stage, _: usize, _: usize) -> bool {
+        true
+    }
+    fn now_ms(&self) -> f64 {
+        0.0
+    }
+}
+
+/// One route with its audit and risk.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct AuditedRoute {
+    pub kind: RouteKind,
+    pub route: Route,
+    pub audit: RouteAudit,
+    /// Risk points of one trip along the route.
+    pub risk: f64,
+}
+
+/// Everything the audit found for one home.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct HomeResult {
+    pub assignment: Assignment,
+    pub attachment: Option<Attachment>,
+    pub shortest: Option<AuditedRoute>,
+    pub recommended: Option<AuditedRoute>,
+    /// The recommended route would exceed the detour cap, so the shortest stands.
+    pub over_detour_cap: bool,
+}
+
+impl HomeResult {
+    /// Recommended walked length over shortest walked length.
+    pub fn detour_ratio(&self) -> Option<f64> {
+        match (&self.shortest, &self.recommended) {
+            (Some(s), Some(r)) if s.audit.walked_m > 0.0 => {
+                Some(r.audit.walked_m / s.audit.walked_m)
+            }
+            (Some(_), Some(_)) => Some(1.0),
+            _ => None,
+        }
+    }
+}
+
+/// Wall-clock milliseconds per stage.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct Timings {
+    pub parse_ms: f64,
+    pub network_ms: f64,
+    pub routing_ms: f64,
+    pub total_ms: f64,
+}
+
+/// The audit's output: inputs as read, the network, every home's routes.
+#[derive(Debug, Clone)]
+pub struct AuditOutput {
+    pub config: Config,
+    pub layers: Layers,
+    pub warnings: Vec<Warning>,
+    pub network: Network,
+    /// Attachments of each school's entrances (empty when none reaches the network).
+    pub school_att: Vec<Vec<Attachment>>,
+    pub homes: Vec<HomeResult>,
+    pub timings: Timings,
+}
+
+/// Reads the layers and runs the audit.
+pub fn run_audit(
+    raw: &RawLayers,
+    config: &Config,
+    progress: &mut dyn Progress,
+) -> Result<AuditOutput> {
+    let t0 = progress.now_ms();
+    if !progress.report(Stage::Parsing, 0, 1) {
+        return Err(Error::Cancelled);
+    }
+    let (layers, warnings) = read_layers(raw)?;
+    let t1 = progress.now_ms();
+    let mut out = audit_layers(layers, config, progress)?;
+    out.warnings.splice(0..0, warnings);
+    out.timings.parse_ms = t1 - t0;
+    out.timings.total_ms = progress.now_ms() - t0;
+    Ok(out)
+}
+
+/// Edge costs for a route kind: walked metres, plus risk in metres for the recommended route.
+pub fn edge_costs(
+    network: &Network,
+    layers: &Layers,
+    config: &Config,
+    kind: RouteKind,
+) -> Vec<f64> {
+    let g = &network.graph;
+    g.edges
+        .iter()
+        .map(|e| match kind {
+            RouteKind::Shortest => e.length_m,
+            RouteKind::Recommended => {
+                e.length_m
+                    + config.route.metres_per_risk_point
+                        * edge_risk_points(g, e, &layers.streets, &config.risk)
+            }
+        })
+        .collect()
+}
+
+/// Runs the audit on layers already read.
+pub fn audit_layers(
+    layers: Layers,
+    config: &Config,
+    progress: &mut dyn Progress,
+) -> Result<AuditOutput> {
+    let t0 = progress.now_ms();
+    if !progress.report(Stage::Network, 0, 1) {
+        return Err(Error::Cancelled);
+    }
+    let mut network = build_network(&layers, &config.network);
+    let max_m = config.network.max_attach_m;
+    let school_att: Vec<Vec<Attachment>> = layers
+        .schools
+        .iter()
+        .map(|s| {
+            s.entrances
+                .iter()
+                .filter_map(|&p| network.index.attach(&network.graph, p, max_m))
+                .collect()
+        })
+        .collect();
+    let home_att: Vec<Option<Attachment>> = layers
+        .homes
+        .iter()
+        .map(|h| network.index.attach(&network.graph, h.at, max_m))
+        .collect();
+    for (s, atts) in school_att.iter().enumerate() {
+        if atts.is_empty() {
+            let school = &layers.schools[s];
+            network.qa.items.push(QaItem {
+                kind: QaKind::UnreachableSchool,
+                at: school.entrances.first().copied().unwrap_or([0.0, 0.0]),
+                feature: Some(school.feature),
+                message: format!(
+                    "school {} is more than {max_m} m from any walkable street",
+                    school.id
+                ),
+            });
+        }
+    }
+    let t1 = progress.now_ms();
+
+    let walk_cost = edge_costs(&network, &layers, config, RouteKind::Shortest);
+    let rec_cost = edge_costs(&network, &layers, config, RouteKind::Recommended);
+    let assignments = assign_schools(
+        &network.graph,
+        &walk_cost,
+        &layers.homes,
+        &home_att,
+        &layers.schools,
+        &school_att,
+        &layers.catchments,
+    );
+    let mut homes: Vec<HomeResult> = assignments
+        .iter()
+        .zip(&home_att)
+        .map(|(a, att)| HomeResult {
+            assignment: *a,
+            attachment: *att,
+            shortest: None,
+            recommended: None,
+            over_detour_cap: false,
+        })
+        .collect();
+
+    let g = &network.graph;
+    let mut tree = Tree::for_graph(g);
+    let n_schools = layers.schools.len();
+    for (s, entrances) in school_att.iter().enumerate() {
+        if !progress.report(Stage::Routing, s, n_schools) {
+            return Err(Error::Cancelled);
+        }
+        let members: Vec<usize> = (0..homes.len())
+            .filter(|&i| homes[i].assignment.school == Some(s) && homes[i].attachment.is_some())
+            .collect();
+        if members.is_empty() || entrances.is_empty() {
+            continue;
+        }
+        let mut targets = Vec::with_capacity(members.len() * 2);
+        for &i in &members {
+            let e = &g.edges[homes[i].attachment.map(|a| a.edge).unwrap_or(0) as usize];
+            targets.push(e.a);
+            targets.push(e.b);
+        }
+        for (kind, cost) in [
+            (RouteKind::Shortest, &walk_cost),
+            (RouteKind::Recommended, &rec_cost),
+        ] {
+            tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
+            // Homes sharing a snap point share the route.
+            let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
+            for &i in &members {
+                let Some(att) = homes[i].attachment else {
+                    continue;
+                };
+                let key = (att.edge, att.offset_m.to_bits());
+                let routed = shared
+                    .entry(key)
+                    .or_insert_with(|| {
+                        route_to_school(g, &tree, cost, &att, entrances).map(|route| {
+                            let audit = audit_route(g, &layers.streets, &route);
+                            let risk = route_risk(&network, &layers, config, &route);
+                            AuditedRoute {
+                                kind,
+                                route,
+                                audit,
+                                risk,
+                            }
+                        })
+                    })
+                    .clone();
+                match kind {
+                    RouteKind::Shortest => homes[i].shortest = routed,
+                    RouteKind::Recommended => homes[i].recommended = routed,
+                }
+            }
+        }
+        for &i in &members {
+            let h = &mut homes[i];
+            if let (Some(sh), Some(rec)) = (&h.shortest, &h.recommended) {
+                if rec.audit.walked_m > config.route.detour_cap * sh.audit.walked_m + 1e-9 {
+                    let mut standin = sh.clone();
+                    standin.kind = RouteKind::Recommended;
+                    h.recommended = Some(standin);
+                    h.over_detour_cap = true;
+                }
+            }
+        }
+    }
+    progress.report(Stage::Routing, n_schools, n_schools);
+    for (i, h) in homes.iter().enumerate() {
+        if h.shortest.is_none() {
+            let home = &layers.homes[i];
+            let why = if h.attachment.is_none() {
+                format!(
+                    "home {} is more than {max_m} m from any walkable street",
+                    home.id
+                )
+            } else if h.assignment.school.is_none() {
+                format!("home {} has no school it can reach on foot", home.id)
+            } else {
+                format!(
+                    "home {} cannot reach its school on the walking network",
+                    home.id
+                )
+            };
+            network.qa.items.push(QaItem {
+                kind: QaKind::UnreachableHome,
+                at: home.at,
+                feature: Some(home.feature),
+                message: why,
+            });
+        }
+    }
+    let t2 = progress.now_ms();
+    Ok(AuditOutput {
+        config: config.clone(),
+        layers,
+        warnings: Vec::new(),
+        network,
+        school_att,
+        homes,
+        timings: Timings {
+            parse_ms: 0.0,
+            network_ms: t1 - t0,
+            routing_ms: t2 - t1,
+            total_ms: t2 - t0,
+        },
+    })
+}
+
+/// Risk points of one trip along a route (partial edges pro rata).
+pub fn route_risk(network: &Network, layers: &Layers, config: &Config, route: &Route) -> f64 {
+    let g = &network.graph;
+    route
+        .steps
+        .iter()
+        .map(|s| {
+            let e = &g.edges[s.edge as usize];
+            let share = if e.is_crossing() { 1.0 } else { s.share() };
+            share * edge_risk_points(g, e, &layers.streets, &config.risk)
+        })
+        .sum()
+}

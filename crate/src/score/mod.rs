@@ -1,0 +1,1 @@
+//! Scores: per home, per catchment, hotspots, upgrade planner.

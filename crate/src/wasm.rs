@@ -1,0 +1,1 @@
+//! wasm-bindgen surface for the page's worker: converts and forwards, no logic.
