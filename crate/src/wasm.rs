@@ -1,1 +1,137 @@
 //! wasm-bindgen surface for the page's worker: converts and forwards, no logic.
+//!
+//! The worker calls [`audit`] with the layers as text and a config as JSON, and gets one JSON
+//! document back with every export the page shows. Errors come back as their one-line message.
+
+use crate::config::Config;
+use crate::error::{Error, Location};
+use crate::export;
+use crate::input::{HomesFormat, Preset, RawLayers};
+use crate::pipeline::{run_audit, Progress, Stage};
+use serde::Deserialize;
+use serde_json::{json, Value};
+use wasm_bindgen::prelude::*;
+
+/// The layers as the page sends them (field names match [`RawLayers`]).
+#[derive(Deserialize)]
+struct PageLayers {
+    streets: String,
+    #[serde(default)]
+    crossings: Option<String>,
+    schools: String,
+    homes: String,
+    #[serde(default)]
+    homes_format: HomesFormat,
+    #[serde(default)]
+    catchments: Option<String>,
+    #[serde(default)]
+    preset: Preset,
+    #[serde(default)]
+    mapping: Option<String>,
+}
+
+impl From<PageLayers> for RawLayers {
+    fn from(p: PageLayers) -> Self {
+        RawLayers {
+            streets: p.streets,
+            crossings: p.crossings,
+            schools: p.schools,
+            homes: p.homes,
+            homes_format: p.homes_format,
+            catchments: p.catchments,
+            preset: p.preset,
+            mapping: p.mapping,
+        }
+    }
+}
+
+/// Forwards progress to a JS function `(stage, done, total) => boolean`; a falsy answer
+/// cancels.
+struct JsProgress<'a> {
+    callback: &'a js_sys::Function,
+}
+
+impl Progress for JsProgress<'_> {
+    fn report(&mut self, stage: Stage, done: usize, total: usize) -> bool {
+        let stage = serde_json::to_value(stage)
+            .ok()
+            .and_then(|v| v.as_str().map(String::from))
+            .unwrap_or_default();
+        self.callback
+            .call3(
+                &JsValue::NULL,
+                &JsValue::from_str(&stage),
+                &JsValue::from_f64(done as f64),
+                &JsValue::from_f64(total as f64),
+            )
+            .map(|v| v.is_truthy())
+            .unwrap_or(true)
+    }
+    fn now_ms(&self) -> f64 {
+        js_sys::Date::now()
+    }
+}
+
+fn to_js(e: impl std::fmt::Display) -> JsValue {
+    JsValue::from_str(&json!({ "message": e.to_string(), "at": null }).to_string())
+}
+
+/// An audit error as `{message, at}`, `at` naming the layer and feature when the error has one.
+fn error_to_js(e: Error) -> JsValue {
+    let at = match &e {
+        Error::Input { at, .. } | Error::Projected { at, .. } => serde_json::to_value(at).ok(),
+        Error::Parse { layer, .. } => serde_json::to_value(Location::layer(*layer)).ok(),
+        _ => None,
+    };
+    JsValue::from_str(&json!({ "message": e.to_string(), "at": at }).to_string())
+}
+
+/// The default configuration as JSON (the page's settings start from it).
+#[wasm_bindgen(js_name = defaultConfig)]
+pub fn default_config() -> String {
+    serde_json::to_string(&Config::default()).unwrap_or_default()
+}
+
+/// The caution every result carries.
+#[wasm_bindgen]
+pub fn caution() -> String {
+    crate::CAUTION.to_string()
+}
+
+/// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
+/// catchments?, preset?, mapping?}` with each layer as text; `config_json`: a config
+/// (empty for defaults). Returns one JSON: summary, homes CSV, routes, QA, centrelines,
+/// the validated layers and the warnings. An error comes back as `{message, at}` JSON.
+#[wasm_bindgen]
+pub fn audit(
+    layers_json: &str,
+    config_json: &str,
+    progress: &js_sys::Function,
+) -> Result<String, JsValue> {
+    let page: PageLayers = serde_json::from_str(layers_json).map_err(to_js)?;
+    let raw: RawLayers = page.into();
+    let config = if config_json.trim().is_empty() {
+        Config::default()
+    } else {
+        Config::from_json(config_json).map_err(error_to_js)?
+    };
+    let mut p = JsProgress { callback: progress };
+    let out = run_audit(&raw, &config, &mut p).map_err(error_to_js)?;
+    let doc: Value = json!({
+        "summary": export::summary_json(&out),
+        "homes_csv": export::homes_csv(&out),
+        "routes": export::routes_geojson(&out),
+        "qa": export::qa_geojson(&out),
+        "centrelines": export::centrelines_geojson(&out),
+        "layers": {
+            "crossings": out.layers.crossings,
+            "schools": out.layers.schools,
+            "homes": out.layers.homes,
+            "catchments": out.layers.catchments.iter()
+                .map(|c| json!({ "feature": c.feature, "school_id": c.school_id }))
+                .collect::<Vec<_>>(),
+        },
+        "warnings": out.warnings,
+    });
+    serde_json::to_string(&doc).map_err(to_js)
+}

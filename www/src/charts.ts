@@ -1,0 +1,137 @@
+// Charts (Chart.js, vendored in the bundle): benefit against risk, route lengths, hotspots.
+
+import { Chart, registerables, type Plugin } from 'chart.js';
+import type { View } from './model';
+import { HOTSPOT_COLOR, SPEED_BANDS } from './palette';
+
+Chart.register(...registerables);
+Chart.defaults.font.family = 'system-ui, sans-serif';
+Chart.defaults.animation = false;
+
+const charts = new Map<string, Chart>();
+
+function replace(id: string, make: (c: HTMLCanvasElement) => Chart) {
+  charts.get(id)?.destroy();
+  const canvas = document.getElementById(id) as HTMLCanvasElement | null;
+  if (canvas) charts.set(id, make(canvas));
+}
+
+const median = (xs: number[]) => {
+  const s = [...xs].sort((a, b) => a - b);
+  return s.length ? (s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2) : 0;
+};
+
+/** Quadrant lines at the median risk and median benefit, with a name in each quadrant. */
+function quadrants(xMid: number, yMid: number): Plugin<'scatter'> {
+  return {
+    id: 'quadrants',
+    beforeDatasetsDraw(chart) {
+      const { ctx, chartArea: a, scales } = chart;
+      const x = scales.x.getPixelForValue(xMid);
+      const y = scales.y.getPixelForValue(yMid);
+      ctx.save();
+      ctx.fillStyle = 'rgba(63,143,116,0.08)';
+      ctx.fillRect(a.left, a.top, x - a.left, y - a.top);
+      ctx.fillStyle = 'rgba(184,65,47,0.08)';
+      ctx.fillRect(x, y, a.right - x, a.bottom - y);
+      ctx.strokeStyle = '#8a8172';
+      ctx.setLineDash([4, 3]);
+      ctx.beginPath();
+      ctx.moveTo(x, a.top); ctx.lineTo(x, a.bottom);
+      ctx.moveTo(a.left, y); ctx.lineTo(a.right, y);
+      ctx.stroke();
+      ctx.fillStyle = '#5b5146';
+      ctx.font = '11px system-ui, sans-serif';
+      ctx.textAlign = 'left';
+      ctx.fillText('more walking, less risk', a.left + 4, a.top + 12);
+      ctx.textAlign = 'right';
+      ctx.fillText('more walking, more risk', a.right - 4, a.top + 12);
+      ctx.fillText('less walking, more risk', a.right - 4, a.bottom - 6);
+      ctx.textAlign = 'left';
+      ctx.fillText('less walking, less risk', a.left + 4, a.bottom - 6);
+      ctx.restore();
+    },
+  };
+}
+
+export function drawCharts(view: View) {
+  const pts = view.catchments.filter((c) => c.riskPerTrip !== null && c.activeMin !== null);
+  const xMid = median(pts.map((c) => c.riskPerTrip as number));
+  const yMid = median(pts.map((c) => c.activeMin as number));
+  replace('c-scatter', (canvas) => new Chart(canvas, {
+    type: 'scatter',
+    data: {
+      datasets: [{
+        label: 'catchments',
+        data: pts.map((c) => ({ x: c.riskPerTrip as number, y: c.activeMin as number, name: c.name || c.schoolId, children: c.children })),
+        pointRadius: pts.map((c) => 4 + Math.sqrt(c.children) / 2),
+        backgroundColor: 'rgba(27,95,167,0.55)',
+        borderColor: '#1b5fa7',
+      }],
+    },
+    options: {
+      maintainAspectRatio: false,
+      plugins: {
+        legend: { display: false },
+        tooltip: { callbacks: { label: (c) => { const d = c.raw as { name: string; x: number; y: number; children: number }; return `${d.name}: ${d.y.toFixed(1)} active min/day, risk ${d.x.toFixed(3)}/trip, ${d.children} children`; } } },
+      },
+      scales: {
+        x: { title: { display: true, text: 'mean risk per trip (points)' }, beginAtZero: true },
+        y: { title: { display: true, text: 'active minutes a day (two trips)' }, beginAtZero: true },
+      },
+    },
+    plugins: [quadrants(xMid, yMid)],
+  }));
+
+  // Route lengths, weighted by children, in 200 m bins, the walk zone marked.
+  const bin = 200;
+  const lens = view.homes.filter((h) => h.shortest).map((h) => ({ m: h.shortest?.properties.network_m ?? 0, w: h.children }));
+  const top = Math.max(view.walkZoneM * 1.5, ...lens.map((l) => l.m));
+  const nb = Math.max(1, Math.ceil(top / bin));
+  const counts = new Array(nb).fill(0);
+  for (const l of lens) counts[Math.min(nb - 1, Math.floor(l.m / bin))] += l.w;
+  const zoneBin = view.walkZoneM / bin;
+  replace('c-lengths', (canvas) => new Chart(canvas, {
+    type: 'bar',
+    data: {
+      labels: counts.map((_, i) => `${((i * bin) / 1000).toFixed(1)}`),
+      datasets: [{
+        label: 'children',
+        data: counts,
+        backgroundColor: counts.map((_, i) => (i + 1 <= zoneBin ? SPEED_BANDS[0].color : '#a8a195')),
+        barPercentage: 1,
+        categoryPercentage: 0.96,
+      }],
+    },
+    options: {
+      maintainAspectRatio: false,
+      plugins: { legend: { display: false } },
+      scales: {
+        x: { title: { display: true, text: `shortest route, km (green: inside the ${view.walkZoneM} m walk zone)` } },
+        y: { title: { display: true, text: 'children' }, beginAtZero: true },
+      },
+    },
+  }));
+
+  const hot = [...view.hotspots]
+    .map((f) => ({ label: String(f.properties['label'] ?? f.properties['name'] ?? f.properties['id'] ?? ''), v: Number(f.properties['children_x_risk'] ?? f.properties['score'] ?? 0) }))
+    .sort((a, b) => b.v - a.v)
+    .slice(0, 10);
+  replace('c-hotspots', (canvas) => new Chart(canvas, {
+    type: 'bar',
+    data: { labels: hot.map((h) => h.label), datasets: [{ label: 'children × risk', data: hot.map((h) => h.v), backgroundColor: HOTSPOT_COLOR }] },
+    options: {
+      indexAxis: 'y',
+      maintainAspectRatio: false,
+      plugins: { legend: { display: false }, title: { display: hot.length === 0, text: 'No hotspots in this audit' } },
+      scales: { x: { title: { display: true, text: 'children routed × risk points' }, beginAtZero: true } },
+    },
+  }));
+}
+
+/** The charts as images, for the printable report. */
+export function chartImages(): Record<string, string> {
+  const out: Record<string, string> = {};
+  for (const [id, c] of charts) out[id] = c.toBase64Image('image/png', 1);
+  return out;
+}

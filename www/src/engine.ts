@@ -1,0 +1,121 @@
+// The page's side of the audit worker: starts it, hands it the compiled core, runs audits,
+// and cancels by terminating the worker and starting a fresh one.
+
+import type { FromWorker, ToWorker } from './types';
+
+/** What the build inlines into the single-file page (absent when served as files). */
+export interface Inline {
+  wasm: string;
+  worker: string;
+  demo: Record<string, string>;
+}
+
+declare global {
+  interface Window {
+    CATCHWALK_INLINE?: Inline;
+  }
+}
+
+export interface Progress {
+  stage: string;
+  done: number;
+  total: number;
+}
+
+export interface AuditResult {
+  docText: string;
+  ms: number;
+}
+
+function base64ToBytes(b64: string): Uint8Array {
+  const bin = atob(b64);
+  const out = new Uint8Array(bin.length);
+  for (let i = 0; i < bin.length; i++) out[i] = bin.charCodeAt(i);
+  return out;
+}
+
+async function loadModule(): Promise<WebAssembly.Module> {
+  const inline = window.CATCHWALK_INLINE;
+  if (inline) return WebAssembly.compile(base64ToBytes(inline.wasm) as BufferSource);
+  const r = await fetch('wasm/catchwalk_bg.wasm');
+  if (!r.ok) throw new Error(`cannot load the audit core (wasm/catchwalk_bg.wasm: ${r.status})`);
+  return WebAssembly.compile(await r.arrayBuffer());
+}
+
+function workerUrl(): string {
+  const inline = window.CATCHWALK_INLINE;
+  if (inline) return URL.createObjectURL(new Blob([inline.worker], { type: 'text/javascript' }));
+  return 'worker.js';
+}
+
+export class Engine {
+  private worker: Worker | null = null;
+  private module: WebAssembly.Module | null = null;
+  private ready: Promise<void> | null = null;
+  private nextId = 1;
+  private pending = new Map<
+    number,
+    { resolve: (r: AuditResult) => void; reject: (e: Error) => void; onProgress: (p: Progress) => void }
+  >();
+  defaultConfig = '{}';
+  caution = '';
+
+  /** Starts (or restarts) the worker; resolves once the core is loaded in it. */
+  start(): Promise<void> {
+    this.ready = (async () => {
+      if (!this.module) this.module = await loadModule();
+      const w = new Worker(workerUrl());
+      this.worker = w;
+      await new Promise<void>((resolve, reject) => {
+        w.onerror = (e) => reject(new Error(`the audit worker failed to start: ${e.message}`));
+        w.onmessage = (ev: MessageEvent<FromWorker>) => {
+          const m = ev.data;
+          if (m.type === 'ready') {
+            this.defaultConfig = m.defaultConfig;
+            this.caution = m.caution;
+            w.onmessage = (e2: MessageEvent<FromWorker>) => this.receive(e2.data);
+            resolve();
+          }
+        };
+        const init: ToWorker = { type: 'init', module: this.module as WebAssembly.Module };
+        w.postMessage(init);
+      });
+    })();
+    return this.ready;
+  }
+
+  private receive(m: FromWorker) {
+    if (m.type === 'ready') return;
+    const p = this.pending.get(m.id);
+    if (!p) return;
+    if (m.type === 'progress') p.onProgress({ stage: m.stage, done: m.done, total: m.total });
+    else if (m.type === 'done') {
+      this.pending.delete(m.id);
+      p.resolve({ docText: m.doc, ms: m.ms });
+    } else if (m.type === 'failed') {
+      this.pending.delete(m.id);
+      p.reject(new Error(m.error));
+    }
+  }
+
+  /** Runs one audit in the worker. */
+  async audit(layers: string, config: string, onProgress: (p: Progress) => void): Promise<AuditResult> {
+    if (!this.ready) this.start();
+    await this.ready;
+    const id = this.nextId++;
+    return new Promise((resolve, reject) => {
+      this.pending.set(id, { resolve, reject, onProgress });
+      const msg: ToWorker = { type: 'audit', id, layers, config };
+      this.worker?.postMessage(msg);
+    });
+  }
+
+  /** Stops a running audit: the worker is terminated and a fresh one started. */
+  cancel(): Promise<void> {
+    this.worker?.terminate();
+    this.worker = null;
+    for (const p of this.pending.values()) p.reject(new Error('cancelled'));
+    this.pending.clear();
+    return this.start();
+  }
+}

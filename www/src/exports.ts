@@ -1,0 +1,60 @@
+// Exports. Files meant for sharing carry no single home unless the planner ticks
+// "include individual homes"; every file carries the caution.
+
+import { toCsv } from './csv';
+import { download } from './dom';
+import type { View } from './model';
+import { COLUMNS } from './table';
+import type { FeatureCollection } from './types';
+
+const stamp = () => new Date().toISOString().slice(0, 10);
+
+/** Routes: every home's two routes (individual), or figures per catchment (shared). */
+export function routesExport(view: View, catchmentFile: FeatureCollection | null, individual: boolean): FeatureCollection {
+  const caution = view.doc.summary.caution;
+  if (individual) return { ...view.doc.routes, caution };
+  const idOf = new Map(view.doc.layers.catchments.map((c) => [c.feature, c.school_id]));
+  const rows = new Map(view.catchments.map((c) => [c.schoolId, c]));
+  const features = (catchmentFile?.features ?? []).map((f, i) => {
+    const c = rows.get(idOf.get(i) ?? '');
+    return {
+      type: 'Feature' as const,
+      geometry: f.geometry,
+      properties: c
+        ? {
+            school_id: c.schoolId, school: c.name, homes: c.homes, children: c.children,
+            children_in_walk_zone: c.inZone, children_with_safe_route: c.safe,
+            deficit_share: c.deficit, mean_shortest_network_m: c.meanShortestM,
+            mean_uncontrolled_crossings: c.meanUncontrolled, mean_risk_per_trip: c.riskPerTrip,
+            active_minutes_per_day: c.activeMin,
+          }
+        : { school_id: idOf.get(i) ?? null },
+    };
+  });
+  return { type: 'FeatureCollection', caution, features } as FeatureCollection;
+}
+
+export function catchmentsCsv(view: View): string {
+  const header = ['school_id', ...COLUMNS.map((c) => String(c.key)), 'homes', 'children_in_walk_zone', 'children_with_safe_route'];
+  const rows = view.catchments.map((c) => [c.schoolId, ...COLUMNS.map((k) => c[k.key]), c.homes, c.inZone, c.safe]);
+  return `# ${view.doc.summary.caution}\n` + toCsv(header, rows);
+}
+
+export function saveRoutes(view: View, file: FeatureCollection | null, individual: boolean) {
+  const name = individual ? `catchwalk-routes-by-home-${stamp()}.geojson` : `catchwalk-routes-by-catchment-${stamp()}.geojson`;
+  download(name, JSON.stringify(routesExport(view, file, individual)), 'application/geo+json');
+}
+
+export function saveHotspots(view: View) {
+  const fc = { type: 'FeatureCollection', caution: view.doc.summary.caution, features: view.hotspots };
+  download(`catchwalk-hotspots-${stamp()}.geojson`, JSON.stringify(fc), 'application/geo+json');
+}
+
+export function saveCatchments(view: View) {
+  download(`catchwalk-catchments-${stamp()}.csv`, catchmentsCsv(view), 'text/csv');
+}
+
+/** The core's homes.csv as it is (same columns and figures as the command line's). */
+export function saveHomes(view: View) {
+  download(`catchwalk-homes-${stamp()}.csv`, view.doc.homes_csv, 'text/csv');
+}

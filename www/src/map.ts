@@ -1,0 +1,348 @@
+// The map: MapLibre GL JS with a blank style of our own (no tiles: the streets are the map).
+
+import maplibregl, { type GeoJSONSource, type LngLatBoundsLike, type Map as MlMap } from 'maplibre-gl';
+import {
+  CLASS_WIDTH,
+  DEVICES,
+  HOME_STATUS,
+  HOTSPOT_COLOR,
+  PAPER,
+  PATH_COLOR,
+  QA_COLOR,
+  ROUTE_STYLE,
+  SPEED_BANDS,
+  deficitColor,
+  deviceImage,
+} from './palette';
+import type { View } from './model';
+import type { Feature, FeatureCollection } from './types';
+
+const empty = (): FeatureCollection => ({ type: 'FeatureCollection', features: [] });
+type SourceData = maplibregl.GeoJSONSourceSpecification['data'];
+const data = (fc: FeatureCollection) => fc as unknown as SourceData;
+/** Expressions are built as plain arrays; MapLibre validates them at run time. */
+const ex = (e: unknown) => e as maplibregl.ExpressionSpecification;
+
+export interface MapEvents {
+  onHome: (id: string) => void;
+  onCatchment: (schoolId: string) => void;
+}
+
+export class AuditMap {
+  map: MlMap;
+  private loaded: Promise<void>;
+  private schoolMarkers: maplibregl.Marker[] = [];
+
+  constructor(container: HTMLElement, private events: MapEvents) {
+    this.map = new maplibregl.Map({
+      container,
+      style: {
+        version: 8,
+        sources: {},
+        layers: [{ id: 'paper', type: 'background', paint: { 'background-color': PAPER } }],
+      },
+      center: [0, 0],
+      zoom: 1,
+      attributionControl: false,
+      canvasContextAttributes: { preserveDrawingBuffer: true },
+    });
+    this.map.addControl(new maplibregl.NavigationControl({ showCompass: false }), 'top-right');
+    this.map.addControl(new maplibregl.ScaleControl({ unit: 'metric' }), 'bottom-right');
+    this.loaded = new Promise((resolve) => this.map.on('load', () => resolve()));
+    this.loaded.then(() => this.setup());
+  }
+
+  private setup() {
+    const m = this.map;
+    for (const d of DEVICES) {
+      const { data } = deviceImage(d.key, 40);
+      m.addImage(`dev-${d.key}`, data, { pixelRatio: 2 });
+    }
+    for (const id of ['catchments', 'streets', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home'])
+      m.addSource(id, { type: 'geojson', data: data(empty()) });
+    m.addSource('homes', {
+      type: 'geojson',
+      data: data(empty()),
+      cluster: true,
+      clusterMaxZoom: 15,
+      clusterRadius: 36,
+      clusterProperties: {
+        children: ['+', ['get', 'children']],
+        unsafe: ['+', ['case', ['==', ['get', 'status'], 'unsafe'], ['get', 'children'], 0]],
+      },
+    });
+    m.addLayer({
+      id: 'catchments-fill',
+      type: 'fill',
+      source: 'catchments',
+      paint: { 'fill-color': ['coalesce', ['get', 'shade'], '#cccccc'], 'fill-opacity': 0.42 },
+    });
+    m.addLayer({
+      id: 'catchments-line',
+      type: 'line',
+      source: 'catchments',
+      paint: {
+        'line-color': '#5b5146',
+        'line-width': ['case', ['boolean', ['get', 'selected'], false], 3, 1.2],
+        'line-dasharray': [3, 2],
+      },
+    });
+    const speed = ['get', 'speed_kmh'];
+    const foot = ['in', ['get', 'class'], ['literal', ['path', 'steps']]];
+    const width = ['match', ['get', 'class'], ...Object.entries(CLASS_WIDTH).flat(), 2];
+    m.addLayer({
+      id: 'streets-casing',
+      type: 'line',
+      source: 'streets',
+      filter: ['!', foot] as maplibregl.FilterSpecification,
+      layout: { 'line-cap': 'round', 'line-join': 'round' },
+      paint: {
+        'line-color': '#ffffff',
+        'line-width': ex(['interpolate', ['linear'], ['zoom'], 12, ['*', 0.7, width], 17, ['*', 3.2, width]]),
+      },
+    });
+    m.addLayer({
+      id: 'streets',
+      type: 'line',
+      source: 'streets',
+      filter: ['!', foot] as maplibregl.FilterSpecification,
+      layout: { 'line-cap': 'round', 'line-join': 'round' },
+      paint: {
+        'line-color': ex(['case', ['<=', speed, 30], SPEED_BANDS[0].color, ['<=', speed, 50], SPEED_BANDS[1].color, SPEED_BANDS[2].color]),
+        'line-width': ex(['interpolate', ['linear'], ['zoom'], 12, ['*', 0.45, width], 17, ['*', 2.2, width]]),
+      },
+    });
+    m.addLayer({
+      id: 'paths',
+      type: 'line',
+      source: 'streets',
+      filter: foot as maplibregl.FilterSpecification,
+      paint: { 'line-color': PATH_COLOR, 'line-width': 2, 'line-dasharray': [2, 1.5] },
+    });
+    m.addLayer({
+      id: 'sel-shortest',
+      type: 'line',
+      source: 'sel-routes',
+      filter: ['==', ['get', 'kind'], 'shortest'],
+      layout: { 'line-cap': 'round', 'line-join': 'round' },
+      paint: { 'line-color': ROUTE_STYLE.shortest.color, 'line-width': 3, 'line-dasharray': [1.5, 1.2], 'line-opacity': 0.85 },
+    });
+    m.addLayer({
+      id: 'sel-recommended',
+      type: 'line',
+      source: 'sel-routes',
+      filter: ['==', ['get', 'kind'], 'recommended'],
+      layout: { 'line-cap': 'round', 'line-join': 'round' },
+      paint: { 'line-color': ROUTE_STYLE.recommended.color, 'line-width': 5, 'line-opacity': 0.75 },
+    });
+    m.addLayer({
+      id: 'hotspots',
+      type: 'circle',
+      source: 'hotspots',
+      paint: {
+        'circle-color': HOTSPOT_COLOR,
+        'circle-opacity': 0.35,
+        'circle-stroke-color': HOTSPOT_COLOR,
+        'circle-stroke-width': 1.5,
+        'circle-radius': ['interpolate', ['linear'], ['sqrt', ['coalesce', ['get', 'weight'], 0]], 0, 0, 1, 22],
+      },
+    });
+    m.addLayer({
+      id: 'crossings',
+      type: 'symbol',
+      source: 'crossings',
+      minzoom: 13.5,
+      layout: {
+        'icon-image': ['concat', 'dev-', ['get', 'symbol']],
+        'icon-allow-overlap': true,
+        'icon-size': ['interpolate', ['linear'], ['zoom'], 14, 0.6, 17, 1],
+      },
+    });
+    m.addLayer({
+      id: 'homes-cluster',
+      type: 'circle',
+      source: 'homes',
+      filter: ['has', 'point_count'],
+      paint: {
+        'circle-color': [
+          'interpolate', ['linear'], ['/', ['get', 'unsafe'], ['max', 1, ['get', 'children']]],
+          0, HOME_STATUS[0].color, 0.5, '#d9a441', 1, HOME_STATUS[1].color,
+        ],
+        'circle-opacity': 0.8,
+        'circle-stroke-color': '#ffffff',
+        'circle-stroke-width': 1.5,
+        'circle-radius': ['interpolate', ['linear'], ['sqrt', ['get', 'children']], 1, 6, 20, 26],
+      },
+    });
+    m.addLayer({
+      id: 'homes-pt',
+      type: 'circle',
+      source: 'homes',
+      filter: ['!', ['has', 'point_count']],
+      paint: {
+        'circle-color': ex(['match', ['get', 'status'], ...HOME_STATUS.flatMap((s) => [s.key, s.color]), '#777']),
+        'circle-radius': ['interpolate', ['linear'], ['zoom'], 14, 3.5, 18, 7],
+        'circle-stroke-color': '#ffffff',
+        'circle-stroke-width': 1,
+      },
+    });
+    m.addLayer({
+      id: 'sel-home',
+      type: 'circle',
+      source: 'sel-home',
+      paint: { 'circle-radius': 10, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': '#1b5fa7', 'circle-stroke-width': 3 },
+    });
+    m.addLayer({
+      id: 'qa',
+      type: 'circle',
+      source: 'qa',
+      paint: { 'circle-radius': 6, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': QA_COLOR, 'circle-stroke-width': 2.5 },
+    });
+
+    m.on('click', (e) => {
+      const hit = m.queryRenderedFeatures(e.point, { layers: ['homes-pt', 'homes-cluster', 'catchments-fill'] });
+      const home = hit.find((f) => f.layer.id === 'homes-pt');
+      if (home) return this.events.onHome(String(home.properties.id));
+      const cluster = hit.find((f) => f.layer.id === 'homes-cluster');
+      if (cluster) {
+        const src = m.getSource('homes') as GeoJSONSource;
+        src.getClusterExpansionZoom(cluster.properties.cluster_id as number).then((z) => {
+          m.easeTo({ center: (cluster.geometry as unknown as { coordinates: [number, number] }).coordinates, zoom: z + 0.5 });
+        });
+        return;
+      }
+      const c = hit.find((f) => f.layer.id === 'catchments-fill');
+      if (c && c.properties.school_id !== undefined) this.events.onCatchment(String(c.properties.school_id));
+    });
+    for (const id of ['homes-pt', 'homes-cluster', 'catchments-fill']) {
+      m.on('mouseenter', id, () => (m.getCanvas().style.cursor = 'pointer'));
+      m.on('mouseleave', id, () => (m.getCanvas().style.cursor = ''));
+    }
+  }
+
+  private set(id: string, fc: FeatureCollection) {
+    (this.map.getSource(id) as GeoJSONSource | undefined)?.setData(data(fc) as Parameters<GeoJSONSource['setData']>[0]);
+  }
+
+  /** Draws one audit. `catchmentFile` is the planner's catchments layer as loaded. */
+  async show(view: View, catchmentFile: FeatureCollection | null, fit: boolean) {
+    await this.loaded;
+    const doc = view.doc;
+    this.set('streets', doc.centrelines);
+    this.set('crossings', {
+      type: 'FeatureCollection',
+      features: doc.layers.crossings.map((c) => ({
+        type: 'Feature',
+        geometry: { type: 'Point', coordinates: c.at },
+        properties: { id: c.id, symbol: c.control.guard ? 'guard' : c.control.device, island: c.control.refuge_island },
+      })),
+    });
+    this.set('homes', {
+      type: 'FeatureCollection',
+      features: view.homes.map((h) => ({
+        type: 'Feature',
+        geometry: { type: 'Point', coordinates: h.at },
+        properties: { id: h.id, children: h.children, status: h.status },
+      })),
+    });
+    this.set('qa', doc.qa);
+    const maxHot = Math.max(1e-9, ...view.hotspots.map((f) => Number(f.properties['children_x_risk'] ?? f.properties['score'] ?? 0)));
+    this.set('hotspots', {
+      type: 'FeatureCollection',
+      features: view.hotspots.map((f) => ({
+        ...f,
+        geometry: pointOf(f),
+        properties: { ...f.properties, weight: Number(f.properties['children_x_risk'] ?? f.properties['score'] ?? 0) / maxHot },
+      })),
+    });
+    this.setCatchments(view, catchmentFile, null);
+    this.setSchools(view);
+    if (fit) {
+      const b = bounds(doc.centrelines);
+      if (b) this.map.fitBounds(b, { padding: 30, duration: 0 });
+    }
+  }
+
+  setCatchments(view: View, file: FeatureCollection | null, selected: string | null) {
+    if (!file) return this.set('catchments', empty());
+    const bySchool = new Map(view.catchments.map((c) => [c.schoolId, c]));
+    const idOf = new Map(view.doc.layers.catchments.map((c) => [c.feature, c.school_id]));
+    this.set('catchments', {
+      type: 'FeatureCollection',
+      features: file.features.map((f, i) => {
+        const sid = idOf.get(i) ?? null;
+        const row = sid !== null ? bySchool.get(sid) : undefined;
+        return {
+          type: 'Feature',
+          geometry: f.geometry,
+          properties: { school_id: sid, shade: deficitColor(row?.deficit ?? null), selected: sid !== null && sid === selected },
+        };
+      }),
+    });
+  }
+
+  private setSchools(view: View) {
+    for (const mk of this.schoolMarkers) mk.remove();
+    this.schoolMarkers = [];
+    for (const s of view.doc.layers.schools) {
+      const at = s.entrances[0];
+      if (!at) continue;
+      const el = document.createElement('div');
+      el.className = 'school-pin';
+      el.innerHTML = `<span class="school-dot"></span><span class="school-name"></span>`;
+      (el.querySelector('.school-name') as HTMLElement).textContent = s.name || s.id;
+      el.addEventListener('click', (e) => {
+        e.stopPropagation();
+        this.events.onCatchment(s.id);
+      });
+      this.schoolMarkers.push(new maplibregl.Marker({ element: el, anchor: 'left', offset: [-7, 0] }).setLngLat(at).addTo(this.map));
+    }
+  }
+
+  /** Draws routes (and a ring on the home when one is selected). */
+  showRoutes(routes: Feature[], home: [number, number] | null) {
+    this.set('sel-routes', { type: 'FeatureCollection', features: routes });
+    this.set('sel-home', {
+      type: 'FeatureCollection',
+      features: home ? [{ type: 'Feature', geometry: { type: 'Point', coordinates: home }, properties: {} }] : [],
+    });
+  }
+
+  fit(fc: FeatureCollection | Feature[], maxZoom = 17) {
+    const b = bounds({ type: 'FeatureCollection', features: Array.isArray(fc) ? fc : fc.features });
+    if (b) this.map.fitBounds(b, { padding: 60, maxZoom, duration: 300 });
+  }
+
+  image(): string {
+    return this.map.getCanvas().toDataURL('image/png');
+  }
+}
+
+function pointOf(f: Feature): { type: string; coordinates: unknown } | null {
+  const g = f.geometry;
+  if (!g || g.type === 'Point') return g;
+  const coords = collect(g.coordinates);
+  if (!coords.length) return null;
+  const mid = coords[Math.floor(coords.length / 2)];
+  return { type: 'Point', coordinates: mid };
+}
+
+function collect(c: unknown, out: [number, number][] = []): [number, number][] {
+  if (Array.isArray(c) && typeof c[0] === 'number') out.push([c[0], c[1] as number]);
+  else if (Array.isArray(c)) for (const x of c) collect(x, out);
+  return out;
+}
+
+/** The bounding box of a collection, or null when it has no coordinates. */
+export function bounds(fc: FeatureCollection): LngLatBoundsLike | null {
+  let x0 = Infinity, y0 = Infinity, x1 = -Infinity, y1 = -Infinity;
+  for (const f of fc.features) {
+    for (const [x, y] of collect(f.geometry?.coordinates)) {
+      if (!isFinite(x) || !isFinite(y) || Math.abs(x) > 180 || Math.abs(y) > 90) continue;
+      x0 = Math.min(x0, x); y0 = Math.min(y0, y); x1 = Math.max(x1, x); y1 = Math.max(y1, y);
+    }
+  }
+  if (!isFinite(x0)) return null;
+  if (x0 === x1 && y0 === y1) return [[x0 - 0.001, y0 - 0.001], [x1 + 0.001, y1 + 0.001]];
+  return [[x0, y0], [x1, y1]];
+}

@@ -1,0 +1,160 @@
+// The page's view of one audit: homes with their two routes, catchment rows, hotspots.
+// Figures come from the core; the page only groups them for display.
+
+import { csvObjects } from './csv';
+import type { AuditDoc, Feature, FeatureCollection, LonLat, RouteProps } from './types';
+
+export type HomeStatus = 'safe' | 'unsafe' | 'beyond' | 'unreached';
+
+export interface HomeView {
+  idx: number;
+  id: string;
+  at: LonLat;
+  children: number;
+  schoolId: string | null;
+  shortest: Feature<RouteProps> | null;
+  recommended: Feature<RouteProps> | null;
+  status: HomeStatus;
+  reasons: string[];
+}
+
+export interface CatchmentView {
+  schoolId: string;
+  name: string;
+  homes: number;
+  children: number;
+  inZone: number;
+  inZoneShare: number | null;
+  safe: number;
+  safeShare: number | null;
+  deficit: number | null;
+  activeMin: number | null;
+  riskPerTrip: number | null;
+  meanShortestM: number | null;
+  meanUncontrolled: number | null;
+}
+
+export interface View {
+  doc: AuditDoc;
+  homes: HomeView[];
+  byId: Map<string, HomeView>;
+  catchments: CatchmentView[];
+  hotspots: Feature[];
+  walkZoneM: number;
+  /** Which test decides "safe": the core's own, or the page's interim reading of the route. */
+  safeSource: 'core' | 'interim';
+}
+
+const num = (v: unknown): number | null => {
+  if (v === null || v === undefined || v === '') return null;
+  const n = Number(v);
+  return isFinite(n) ? n : null;
+};
+
+/** Why a route fails the interim safe-route reading (no reasons: it passes). */
+function interimReasons(r: RouteProps): string[] {
+  const out: string[] = [];
+  if (r.uncontrolled_crossings > 0)
+    out.push(`${r.uncontrolled_crossings} crossing${r.uncontrolled_crossings > 1 ? 's' : ''} with no signal, stop or guard`);
+  if (r.no_sidewalk_m > 0) out.push(`${Math.round(r.no_sidewalk_m)} m beside traffic with no sidewalk`);
+  return out;
+}
+
+function coreReasons(r: RouteProps): string[] | null {
+  const safe = r['safe'];
+  if (typeof safe !== 'boolean') return null;
+  if (safe) return [];
+  const why = r['unsafe_reasons'] ?? r['reasons'] ?? r['why'];
+  if (Array.isArray(why)) return why.map(String);
+  if (typeof why === 'string' && why) return [why];
+  return ['fails the safe-route test'];
+}
+
+export function buildView(doc: AuditDoc): View {
+  const walkZoneM = doc.summary.walk_zone_m;
+  const routes = new Map<string, { shortest: Feature<RouteProps> | null; recommended: Feature<RouteProps> | null }>();
+  for (const f of doc.routes.features) {
+    const id = f.properties.home_id;
+    const e = routes.get(id) ?? { shortest: null, recommended: null };
+    e[f.properties.kind] = f;
+    routes.set(id, e);
+  }
+  let anyCore = false;
+  const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
+    const r = routes.get(h.id) ?? { shortest: null, recommended: null };
+    let status: HomeStatus;
+    let reasons: string[] = [];
+    if (!r.shortest || !r.recommended) {
+      status = 'unreached';
+      reasons = ['no walking route to a school was found'];
+    } else if (r.shortest.properties.network_m > walkZoneM) {
+      status = 'beyond';
+      reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${walkZoneM} m walk zone`];
+    } else {
+      const core = coreReasons(r.recommended.properties);
+      if (core) anyCore = true;
+      reasons = core ?? interimReasons(r.recommended.properties);
+      if (r.recommended.properties.over_detour_cap)
+        reasons.push('a safer route would exceed the detour cap, so the shortest stands');
+      status = reasons.length && (core ? core.length > 0 : true) ? 'unsafe' : 'safe';
+      if (core && core.length === 0) status = 'safe';
+    }
+    return {
+      idx,
+      id: h.id,
+      at: h.at,
+      children: h.children,
+      schoolId: r.shortest?.properties.school_id ?? h.school ?? null,
+      shortest: r.shortest,
+      recommended: r.recommended,
+      status,
+      reasons,
+    };
+  });
+  const byId = new Map(homes.map((h) => [h.id, h]));
+  const catchments = doc.summary.schools.map((s) => catchmentRow(s.id, s.name, homes, doc, walkZoneM));
+  const hot = doc['hotspots'] as FeatureCollection | undefined;
+  return {
+    doc,
+    homes,
+    byId,
+    catchments,
+    hotspots: hot?.features ?? [],
+    walkZoneM,
+    safeSource: anyCore ? 'core' : 'interim',
+  };
+}
+
+function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: AuditDoc, walkZoneM: number): CatchmentView {
+  const members = homes.filter((h) => h.schoolId === schoolId);
+  const children = members.reduce((a, h) => a + h.children, 0);
+  const routed = members.filter((h) => h.recommended && h.shortest);
+  const inZone = members.filter((h) => h.shortest && h.shortest.properties.network_m <= walkZoneM);
+  const inZoneN = inZone.reduce((a, h) => a + h.children, 0);
+  const safeN = members.filter((h) => h.status === 'safe').reduce((a, h) => a + h.children, 0);
+  const w = routed.reduce((a, h) => a + h.children, 0);
+  const mean = (f: (h: HomeView) => number) => (w > 0 ? routed.reduce((a, h) => a + f(h) * h.children, 0) / w : null);
+  const s = doc.summary.schools.find((x) => x.id === schoolId);
+  const coreActive = num(s?.['mean_active_minutes'] ?? s?.['active_minutes_per_day']);
+  return {
+    schoolId,
+    name,
+    homes: members.length,
+    children,
+    inZone: inZoneN,
+    inZoneShare: children ? inZoneN / children : null,
+    safe: safeN,
+    safeShare: children ? safeN / children : null,
+    deficit: children ? (inZoneN - safeN) / children : null,
+    // Two trips a day at the recommended route's walking time.
+    activeMin: coreActive ?? mean((h) => 2 * (h.recommended?.properties.walking_time_min ?? 0)),
+    riskPerTrip: num(s?.mean_risk_per_trip) ?? mean((h) => h.recommended?.properties.risk ?? 0),
+    meanShortestM: num(s?.mean_shortest_network_m),
+    meanUncontrolled: num(s?.mean_uncontrolled_crossings),
+  };
+}
+
+/** The homes.csv rows keyed by home id (for the parity of exports and a home's panel). */
+export function homesCsvRows(doc: AuditDoc): Record<string, string>[] {
+  return csvObjects(doc.homes_csv);
+}

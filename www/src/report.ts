@@ -1,0 +1,65 @@
+// The printable report: map, tables, charts, methods, sources and cautions, for the district
+// or one catchment. Shown in place of the page under the print stylesheet.
+
+import { el, fmt } from './dom';
+import type { View } from './model';
+import { COLUMNS } from './table';
+
+const SOURCES = [
+  'Walking speed 1.07 m/s (3.5 ft/s): the usual pedestrian signal-timing value (common practice).',
+  'Daily activity: WHO 2020 guidelines on physical activity and sedentary behaviour — an average of 60 minutes a day of moderate-to-vigorous activity for ages 5–17.',
+  'Waiting at uncontrolled crossings: Highway Capacity Manual gap-acceptance method for pedestrians at unsignalised crossings.',
+  'Severity against vehicle speed: published logistic fits of pedestrian fatality risk (see the core documentation for the table in use and its source).',
+  'Street network, crossings, schools, homes and catchments: the layers loaded by the planner (listed below).',
+];
+
+export interface ReportInput {
+  view: View;
+  scope: string | null;
+  mapImage: string;
+  charts: Record<string, string>;
+  files: Record<string, string>;
+  settings: string;
+  caution: string;
+}
+
+export function buildReport(host: HTMLElement, r: ReportInput) {
+  const { view } = r;
+  const rows = r.scope ? view.catchments.filter((c) => c.schoolId === r.scope) : view.catchments;
+  const title = r.scope ? `Catchment of ${rows[0]?.name ?? r.scope}` : 'District walking-route audit';
+  const homes = r.scope ? view.homes.filter((h) => h.schoolId === r.scope) : view.homes;
+  const byStatus = (s: string) => homes.filter((h) => h.status === s).reduce((a, h) => a + h.children, 0);
+  const children = homes.reduce((a, h) => a + h.children, 0);
+  const table = el('table', { class: 'figures wide' },
+    el('thead', {}, el('tr', {}, ...COLUMNS.map((c) => el('th', {}, c.label)))),
+    el('tbody', {}, ...rows.map((c) => el('tr', {}, ...COLUMNS.map((k) => el('td', {}, k.show(c)))))));
+  const cfg = JSON.parse(r.settings) as Record<string, Record<string, unknown>>;
+  host.replaceChildren(
+    el('header', {},
+      el('h1', {}, title),
+      el('p', {}, `catchwalk audit, ${new Date().toLocaleDateString('en-CA')} · walk zone ${view.walkZoneM} m · ${children} children in ${homes.length} homes`)),
+    el('p', { class: 'caution' }, r.caution),
+    el('img', { class: 'report-map', src: r.mapImage, alt: 'map of the audited network' }),
+    el('h2', {}, 'Children by route'),
+    el('table', { class: 'figures' }, el('tbody', {},
+      ...[['Safe route (passes every test)', byStatus('safe')], ['Route fails a safety test', byStatus('unsafe')], ['Beyond the walk zone', byStatus('beyond')], ['No route found', byStatus('unreached')]]
+        .map(([k, v]) => el('tr', {}, el('th', {}, String(k)), el('td', {}, `${v} (${fmt.pct(children ? Number(v) / children : null)})`))))),
+    el('h2', {}, 'Catchments'),
+    table,
+    el('h2', {}, 'Charts'),
+    el('div', { class: 'report-charts' }, ...Object.values(r.charts).map((src) => el('img', { src, alt: 'chart' }))),
+    el('h2', {}, 'Method'),
+    el('p', {}, 'Streets are split into their two sides; corners join at every junction and each leg of a junction is a crossing with the control the crossings layer gives it. Every home is routed to its school twice: the shortest walk, and a recommended walk that trades length against risk (each risk point is worth a set number of metres) within a detour cap. Each route is audited for its length, walking time, the crossings it makes and what controls them, and the distance walked beside traffic or without a sidewalk. Risk is an index, not a prediction of injuries.'),
+    el('p', {}, `Settings: walk zone ${cfg.benefit?.walk_zone_m} m, walking speed ${cfg.benefit?.walking_speed_mps} m/s, detour cap ${cfg.route?.detour_cap}×, ${cfg.route?.metres_per_risk_point} m per risk point.`),
+    view.safeSource === 'interim'
+      ? el('p', {}, 'Safe route in this report: inside the walk zone, no crossing without a signal, stop sign or guard, and no stretch without a sidewalk.')
+      : el('p', {}, 'Safe route: as scored by the audit core with the thresholds above.'),
+    el('h2', {}, 'Sources'),
+    el('ul', {}, ...SOURCES.map((s) => el('li', {}, s)), ...Object.entries(r.files).map(([k, v]) => el('li', {}, `${k}: ${v}`))),
+    el('h2', {}, 'Cautions'),
+    el('ul', {},
+      el('li', {}, r.caution),
+      el('li', {}, 'Figures are only as good as the layers: missing sidewalks, crossings or speeds change routes and scores. Check the data problems listed by the audit.'),
+      el('li', {}, 'This report shows no single home. Keep files with individual homes inside your organisation.')),
+  );
+}

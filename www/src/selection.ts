@@ -1,0 +1,90 @@
+// The selection panel: a home's two routes side by side, or a catchment's figures.
+
+import { el, fmt } from './dom';
+import type { CatchmentView, HomeView, View } from './model';
+import { DEVICES } from './palette';
+import type { RouteProps } from './types';
+
+const deviceLabel = (k: string) => DEVICES.find((d) => d.key === k)?.label ?? k;
+
+function crossingsText(r: RouteProps | undefined): string {
+  if (!r) return '–';
+  const parts = Object.entries(r.crossings_by_device ?? {}).map(([k, n]) => `${n} ${deviceLabel(k)}`);
+  return parts.length ? parts.join('; ') : 'none';
+}
+
+type Row = [string, (r: RouteProps | undefined) => string];
+
+const ROWS: Row[] = [
+  ['Network length', (r) => fmt.m(r?.network_m)],
+  ['Walked (with crossings)', (r) => fmt.m(r?.walked_m)],
+  ['Walking time', (r) => fmt.min(r?.walking_time_min)],
+  ['Crossings', (r) => (r ? String(r.crossings) : '–')],
+  ['… by control', crossingsText],
+  ['Uncontrolled crossings', (r) => (r ? String(r.uncontrolled_crossings) : '–')],
+  ['Arterial crossings', (r) => (r ? String(r.arterial_crossings) : '–')],
+  ['Beside arterials', (r) => fmt.m(r?.arterial_exposure_m)],
+  ['Beside traffic ≤30 km/h', (r) => fmt.m(r?.along_le30_m)],
+  ['Beside traffic 31–50 km/h', (r) => fmt.m(r?.along_31_50_m)],
+  ['Beside traffic >50 km/h', (r) => fmt.m(r?.along_gt50_m)],
+  ['No sidewalk', (r) => fmt.m(r?.no_sidewalk_m)],
+  ['Risk per trip (points)', (r) => (r ? r.risk.toFixed(3) : '–')],
+];
+
+const STATUS_TEXT: Record<string, string> = {
+  safe: 'Safe route: passes every test',
+  unsafe: 'Not a safe route',
+  beyond: 'Beyond the walk zone',
+  unreached: 'No route found',
+};
+
+export function homePanel(view: View, h: HomeView): HTMLElement {
+  const s = h.shortest?.properties;
+  const r = h.recommended?.properties;
+  const school = view.doc.layers.schools.find((x) => x.id === h.schoolId);
+  const table = el(
+    'table',
+    { class: 'figures', id: 'home-figures' },
+    el('thead', {}, el('tr', {}, el('th', {}, ''), el('th', { class: 'k-short' }, 'Shortest'), el('th', { class: 'k-rec' }, 'Recommended'))),
+    el('tbody', {}, ...ROWS.map(([label, f]) => el('tr', { 'data-row': label }, el('th', {}, label), el('td', {}, f(s)), el('td', {}, f(r))))),
+  );
+  const verdict = el(
+    'div',
+    { class: `verdict v-${h.status}`, id: 'home-verdict' },
+    el('strong', {}, STATUS_TEXT[h.status] ?? h.status),
+    h.reasons.length ? el('ul', {}, ...h.reasons.map((x) => el('li', {}, x))) : null,
+  );
+  return el(
+    'div',
+    {},
+    el('h3', {}, `Home ${h.id}`),
+    el('p', { class: 'muted' }, `${h.children} child${h.children === 1 ? '' : 'ren'} · school ${school?.name ?? h.schoolId ?? '–'}`),
+    verdict,
+    view.safeSource === 'interim'
+      ? el('p', { class: 'small muted' }, 'Safe-route test: no uncontrolled crossing and no stretch without a sidewalk, inside the walk zone (interim reading until the core scores routes).')
+      : null,
+    table,
+    el('p', { class: 'small muted' }, 'Dashed dark line: shortest route. Wide blue line: recommended route (length plus risk, within the detour cap).'),
+  );
+}
+
+export function catchmentPanel(view: View, c: CatchmentView): HTMLElement {
+  const rows: [string, string][] = [
+    ['Homes', String(c.homes)],
+    ['Children', String(c.children)],
+    ['In the walk zone', `${c.inZone} (${fmt.pct(c.inZoneShare)})`],
+    ['With a safe route', `${c.safe} (${fmt.pct(c.safeShare)})`],
+    ['Deficit (walk zone − safe)', fmt.pct(c.deficit)],
+    ['Active minutes a day (two trips)', fmt.min(c.activeMin)],
+    ['Risk per trip (points)', fmt.n(c.riskPerTrip, 3)],
+    ['Mean shortest route', fmt.m(c.meanShortestM)],
+    ['Mean uncontrolled crossings', fmt.n(c.meanUncontrolled, 2)],
+  ];
+  return el(
+    'div',
+    {},
+    el('h3', {}, `Catchment of ${c.name || c.schoolId}`),
+    el('p', { class: 'muted' }, `Walk zone ${view.walkZoneM} m. Recommended routes of its homes are drawn on the map.`),
+    el('table', { class: 'figures', id: 'catchment-figures' }, el('tbody', {}, ...rows.map(([k, v]) => el('tr', {}, el('th', {}, k), el('td', {}, v))))),
+  );
+}

@@ -1,0 +1,35 @@
+// The audit worker: holds the wasm core, runs audits off the page's thread, reports progress.
+
+import init, { audit, caution, defaultConfig } from '../build/wasm/catchwalk.js';
+import type { FromWorker, ToWorker } from './types';
+
+const post = (m: FromWorker) => (self as unknown as Worker).postMessage(m);
+
+let lastPost = 0;
+
+self.onmessage = async (ev: MessageEvent<ToWorker>) => {
+  const msg = ev.data;
+  if (msg.type === 'init') {
+    await init({ module_or_path: msg.module });
+    post({ type: 'ready', defaultConfig: defaultConfig(), caution: caution() });
+    return;
+  }
+  if (msg.type === 'audit') {
+    const t0 = performance.now();
+    const progress = (stage: string, done: number, total: number): boolean => {
+      const now = performance.now();
+      // Keep messages few: every stage change and at most one per 50 ms.
+      if (done === 0 || done === total || now - lastPost > 50) {
+        lastPost = now;
+        post({ type: 'progress', id: msg.id, stage, done, total });
+      }
+      return true;
+    };
+    try {
+      const doc = audit(msg.layers, msg.config, progress);
+      post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
+    } catch (e) {
+      post({ type: 'failed', id: msg.id, error: String(e) });
+    }
+  }
+};
