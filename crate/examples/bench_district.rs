@@ -37,7 +37,7 @@ fn street(id: usize, class: RoadClass, line: Vec<[f64; 2]>) -> Street {
         speed_source: SpeedSource::Posted,
         lanes,
         left: SideWalk::Present,
-        right: if id % 7 == 0 {
+        right: if id.is_multiple_of(7) {
             SideWalk::Absent
         } else {
             SideWalk::Present
@@ -70,7 +70,11 @@ fn main() {
                 if x + dx >= side || y + dy >= side {
                     continue;
                 }
-                let arterial = if dx == 1 { y % 10 == 0 } else { x % 10 == 0 };
+                let arterial = if dx == 1 {
+                    y.is_multiple_of(10)
+                } else {
+                    x.is_multiple_of(10)
+                };
                 let class = if arterial {
                     RoadClass::Arterial
                 } else {
@@ -81,7 +85,7 @@ fn main() {
                     .streets
                     .push(street(id, class, vec![at(x, y), at(x + dx, y + dy)]));
             }
-            if x % 10 == 0 && y % 10 == 0 {
+            if x.is_multiple_of(10) && y.is_multiple_of(10) {
                 layers.crossings.push(CrossingPoint {
                     feature: layers.crossings.len(),
                     id: format!("c{x}_{y}"),
