@@ -96,9 +96,10 @@ def proper_cross(a, b, c, d):
         return 0 if abs(v) < 1e-9 else (1 if v > 0 else -1)
 
     def on(p, q, r):
-        return min(p[0], q[0]) - 1e-9 <= r[0] <= max(p[0], q[0]) + 1e-9 and min(
-            p[1], q[1]
-        ) - 1e-9 <= r[1] <= max(p[1], q[1]) + 1e-9
+        return (
+            min(p[0], q[0]) - 1e-9 <= r[0] <= max(p[0], q[0]) + 1e-9
+            and min(p[1], q[1]) - 1e-9 <= r[1] <= max(p[1], q[1]) + 1e-9
+        )
 
     o1, o2, o3, o4 = orient(a, b, c), orient(a, b, d), orient(c, d, a), orient(c, d, b)
     if o1 != o2 and o3 != o4:
@@ -246,23 +247,46 @@ def build_streets(town):
     # Fast road across the town (no sidewalks, a shoulder), straight between junctions so
     # that nothing nodes it under the footbridge.
     fast = dict(speed_kmh=80, lanes=2, sidewalk="none", shoulder_m=1.5, aadt=13500)
-    town.add([(-1500.0, -300.0), (-1350.0, -280.0), (-RING, -250.0)], "arterial", "Gannet Road", **fast)
+    town.add(
+        [(-1500.0, -300.0), (-1350.0, -280.0), (-RING, -250.0)], "arterial", "Gannet Road", **fast
+    )
     town.add([(-RING, -250.0), (-600.0, -250.0), (0.0, -250.0)], "arterial", "Gannet Road", **fast)
-    fast_mid = town.add([(0.0, -250.0), (RING, -250.0)], "arterial", "Gannet Road", **fast)
-    town.add([(RING, -250.0), (1350.0, -230.0), (1500.0, -200.0)], "arterial", "Gannet Road", **fast)
+    town.add([(0.0, -250.0), (RING, -250.0)], "arterial", "Gannet Road", **fast)
+    info["fast_mid_idx"] = len(town.streets) - 1
+    town.add(
+        [(RING, -250.0), (1350.0, -230.0), (1500.0, -200.0)], "arterial", "Gannet Road", **fast
+    )
     info["fast_road_name"] = "Gannet Road"
 
     # Collectors.
     cob = [1200.0, 1000.0, 950.0, 800.0, 700.0, 600.0, 450.0, 300.0, 200.0, 150.0, 0.0]
     cob += [-250.0, -450.0, W[0][1], L[0][1], M[0][1], -RING]
     cob_pts = [(0.0, y) for y in cob]
-    split_add(town, cob_pts, [cob.index(450.0), cob.index(-250.0), cob.index(L[0][1])], "collector", "Cobalt Road")
+    split_add(
+        town,
+        cob_pts,
+        [cob.index(450.0), cob.index(-250.0), cob.index(L[0][1])],
+        "collector",
+        "Cobalt Road",
+    )
     amb = [-RING] + NW_COLS + [0.0, 250.0, 500.0, 750.0, 1000.0, RING]
     amb_pts = [(x, COLLECTOR_Y) for x in amb]
-    split_add(town, amb_pts, [amb.index(-600.0), amb.index(0.0), amb.index(750.0)], "collector", "Amber Road")
+    split_add(
+        town,
+        amb_pts,
+        [amb.index(-600.0), amb.index(0.0), amb.index(750.0)],
+        "collector",
+        "Amber Road",
+    )
 
     # North-west: the regular grid (older, 40 km/h, some one-way, mixed sidewalks).
-    row_names = {1000.0: "Birch Street", 800.0: "Alder Street", 600.0: "Elm Street", 300.0: "Hazel Street", 150.0: "Rowan Street"}
+    row_names = {
+        1000.0: "Birch Street",
+        800.0: "Alder Street",
+        600.0: "Elm Street",
+        300.0: "Hazel Street",
+        150.0: "Rowan Street",
+    }
     for y in NW_ROWS:
         pts = [(-RING, y)] + [(x, y) for x in NW_COLS] + [(0.0, y)]
         kw = {"speed_kmh": 40}
@@ -276,7 +300,13 @@ def build_streets(town):
             town.add(pts, "local", row_names[y], **kw)
     ash = [(-RING, 0.0)] + [(x, 0.0) for x in NW_COLS] + [(0.0, 0.0)]
     town.add(ash, "local", "Ash Street", speed_kmh=40, sidewalk="right")
-    col_names = {-1000.0: "Wren Lane", -800.0: "Robin Lane", -600.0: "Thrush Lane", -400.0: "Swift Lane", -200.0: "Dunlin Lane"}
+    col_names = {
+        -1000.0: "Wren Lane",
+        -800.0: "Robin Lane",
+        -600.0: "Thrush Lane",
+        -400.0: "Swift Lane",
+        -200.0: "Dunlin Lane",
+    }
     col_ys = [RING, 1000.0, 800.0, 600.0, COLLECTOR_Y, 300.0, 150.0, 0.0]
     for x in NW_COLS:
         ys = col_ys + ([-250.0] if x == -600.0 else [])
@@ -290,18 +320,36 @@ def build_streets(town):
 
     # North-east: town centre, with Saffron Street's separately drawn sidewalks.
     town.add([(x, 950.0) for x in [0.0] + NE_COLS + [RING]], "local", "Cedar Street")
-    town.add([(x, 200.0) for x in [0.0, 250.0, 500.0, 750.0, 1000.0, RING]], "local", "Poplar Street")
+    town.add(
+        [(x, 200.0) for x in [0.0, 250.0, 500.0, 750.0, 1000.0, RING]], "local", "Poplar Street"
+    )
     park_road = [0.0, 250.0, 300.0, 500.0, 600.0, 700.0, 750.0, 1000.0, RING]
-    split_add(town, [(x, 0.0) for x in park_road], [park_road.index(500.0)], "local", "Park Road", speed_kmh=30)
+    split_add(
+        town,
+        [(x, 0.0) for x in park_road],
+        [park_road.index(500.0)],
+        "local",
+        "Park Road",
+        speed_kmh=30,
+    )
     town.add([(0.0, SEP_Y), (250.0, SEP_Y)], "local", "Saffron Street")
     sep_xs = [250.0, 400.0, 600.0, 750.0]
-    town.add([(x, SEP_Y) for x in sep_xs], "local", "Saffron Street", sidewalk="separate", speed_kmh=30)
+    town.add(
+        [(x, SEP_Y) for x in sep_xs], "local", "Saffron Street", sidewalk="separate", speed_kmh=30
+    )
     town.add([(x, SEP_Y) for x in [750.0, 1000.0, RING]], "local", "Saffron Street")
     for x, name in [(250.0, "Indigo Lane"), (750.0, "Umber Lane")]:
         ys = [0.0, 200.0, COLLECTOR_Y, SEP_Y - SEP_OFF, SEP_Y, SEP_Y + SEP_OFF, 825.0, 950.0, RING]
         split_add(town, [(x, y) for y in ys], [ys.index(SEP_Y)], "local", name)
-    town.add([(1000.0, y) for y in [0.0, 200.0, COLLECTOR_Y, SEP_Y, 950.0, RING]], "local", "Teal Lane", speed_kmh=40)
-    town.add([(500.0, y) for y in [0.0, 200.0, COLLECTOR_Y]], "local", "Ochre Lane", sidewalk="left")
+    town.add(
+        [(1000.0, y) for y in [0.0, 200.0, COLLECTOR_Y, SEP_Y, 950.0, RING]],
+        "local",
+        "Teal Lane",
+        speed_kmh=40,
+    )
+    town.add(
+        [(500.0, y) for y in [0.0, 200.0, COLLECTOR_Y]], "local", "Ochre Lane", sidewalk="left"
+    )
     town.add([(250.0, 825.0), (750.0, 825.0)], "service", "Saffron Mews")
     for dy in (SEP_OFF, -SEP_OFF):
         town.add([(x, SEP_Y + dy) for x in sep_xs], "path", None)
@@ -317,6 +365,7 @@ def build_streets(town):
     town.add([(380.0, -80.0), (280.0, -130.0), (330.0, -190.0), hub], "path", None)
     town.add([hub, fb_n], "path", None)
     fb = town.add([fb_n, fb_s], "path", "Meadow Footbridge", layer=1)
+    info["footbridge_idx"] = len(town.streets) - 1
     town.add([fb_s, hub2], "path", None)
     town.add([hub2, (400.0, -400.0), (350.0, -450.0)], "path", "Meadow Park path")
     town.add([hub2, (505.0, -400.0), (560.0, -450.0)], "path", "Meadow Park path")
@@ -324,19 +373,38 @@ def build_streets(town):
     town.add([(550.0, -140.0), (590.0, -132.0)], "steps", None)
     town.add([(590.0, -132.0), (690.0, -60.0), (700.0, 0.0)], "path", None)
     info["footbridge"] = fb
-    info["fast_mid"] = fast_mid
 
     # South-west suburb: curving streets, cul-de-sacs, a loop, a near-miss.
     split_add(town, W, [8], "local", "Willow Crescent", speed_kmh=40)
-    heron = [W[4], (-290.0, -640.0), (-330.0, -760.0), (-450.0, -805.0), (-570.0, -775.0), (-610.0, -720.0), W[8]]
+    heron = [
+        W[4],
+        (-290.0, -640.0),
+        (-330.0, -760.0),
+        (-450.0, -805.0),
+        (-570.0, -775.0),
+        (-610.0, -720.0),
+        W[8],
+    ]
     split_add(town, heron, [3], "local", "Heron Loop")
     town.add([W[2], (-145.0, -420.0), (-160.0, -345.0)], "local", "Juniper Close", sidewalk="right")
     town.add([W[10], (-742.0, -540.0), (-760.0, -440.0), (-755.0, -350.0)], "local", "Aspen Close")
     stem_end, top = (-985.0, -390.0), (-985.0, -340.0)
     town.add([W[13], (-980.0, -460.0), stem_end], "local", "Larch Close")
-    town.add([stem_end, (-963.35, -377.5), (-963.35, -352.5), top], "local", "Larch Close", sidewalk="none")
-    town.add([stem_end, (-1006.65, -377.5), (-1006.65, -352.5), top], "local", "Larch Close", sidewalk="none")
-    town.add([W[14], (-1045.0, -680.0), (-1060.0, -790.0)], "local", "Holly Close", sidewalk="unknown")
+    town.add(
+        [stem_end, (-963.35, -377.5), (-963.35, -352.5), top],
+        "local",
+        "Larch Close",
+        sidewalk="none",
+    )
+    town.add(
+        [stem_end, (-1006.65, -377.5), (-1006.65, -352.5), top],
+        "local",
+        "Larch Close",
+        sidewalk="none",
+    )
+    town.add(
+        [W[14], (-1045.0, -680.0), (-1060.0, -790.0)], "local", "Holly Close", sidewalk="unknown"
+    )
     split_add(town, M, [6], "local", "Maple Drive", speed_kmh=40)
     town.add([M[2], (-190.0, -1000.0), (-185.0, -1090.0)], "local", "Lapwing Close")
     town.add([M[5], (-420.0, -1030.0), (-415.0, -1110.0)], "local", "Russet Close", sidewalk="none")
@@ -365,14 +433,29 @@ def build_streets(town):
     split_add(town, meadow, [3], "local", "Meadow Lane", speed_kmh=40)
     split_add(town, L, [8], "local", "Linden Way", speed_kmh=40)
     town.add([(150.0, -450.0), (155.0, -540.0), (145.0, -620.0)], "local", "Thistle Close")
-    town.add([(1050.0, -462.0), (1060.0, -560.0), (1050.0, -640.0)], "local", "Clover Close", sidewalk="left")
+    town.add(
+        [(1050.0, -462.0), (1060.0, -560.0), (1050.0, -640.0)],
+        "local",
+        "Clover Close",
+        sidewalk="left",
+    )
     town.add([(900.0, -470.0), (905.0, -540.0), (900.0, -600.0)], "local", "Plover Close")
     town.add([(900.0, -600.0), (900.0, -625.0)], "steps", None)
     town.add([(900.0, -625.0), L[12]], "path", "Plover cut-through")
     town.add([L[2], (145.0, -930.0), (160.0, -1050.0)], "local", "Sedge Close")
     town.add([L[4], (305.0, -760.0), (295.0, -650.0)], "local", "Ochre Close")
-    town.add([L[14], (1055.0, -900.0), (1040.0, -1050.0)], "local", "Teal Close", sidewalk="unknown")
-    curlew = [L[6], (430.0, -950.0), (500.0, -1050.0), (650.0, -1060.0), (770.0, -980.0), (765.0, -860.0), L[10]]
+    town.add(
+        [L[14], (1055.0, -900.0), (1040.0, -1050.0)], "local", "Teal Close", sidewalk="unknown"
+    )
+    curlew = [
+        L[6],
+        (430.0, -950.0),
+        (500.0, -1050.0),
+        (650.0, -1060.0),
+        (770.0, -980.0),
+        (765.0, -860.0),
+        L[10],
+    ]
     split_add(town, curlew, [3], "local", "Curlew Circle")
 
     # A tiny piece joined to nothing (a QA finding): a yard outside the ring.
@@ -439,8 +522,12 @@ def unnoded_crossings(town):
     cell = 100.0
     grid = {}
     for n, (i, a, b) in enumerate(segs):
-        for gx in range(int(math.floor(min(a[0], b[0]) / cell)), int(math.floor(max(a[0], b[0]) / cell)) + 1):
-            for gy in range(int(math.floor(min(a[1], b[1]) / cell)), int(math.floor(max(a[1], b[1]) / cell)) + 1):
+        for gx in range(
+            int(math.floor(min(a[0], b[0]) / cell)), int(math.floor(max(a[0], b[0]) / cell)) + 1
+        ):
+            for gy in range(
+                int(math.floor(min(a[1], b[1]) / cell)), int(math.floor(max(a[1], b[1]) / cell)) + 1
+            ):
                 grid.setdefault((gx, gy), []).append(n)
     found = set()
     for bucket in sorted(grid):
@@ -468,8 +555,14 @@ class StreetIndex:
             ks = st["keys"]
             for j in range(len(ks) - 1):
                 a, b = ks[j], ks[j + 1]
-                for gx in range(int(math.floor(min(a[0], b[0]) / self.cell)), int(math.floor(max(a[0], b[0]) / self.cell)) + 1):
-                    for gy in range(int(math.floor(min(a[1], b[1]) / self.cell)), int(math.floor(max(a[1], b[1]) / self.cell)) + 1):
+                for gx in range(
+                    int(math.floor(min(a[0], b[0]) / self.cell)),
+                    int(math.floor(max(a[0], b[0]) / self.cell)) + 1,
+                ):
+                    for gy in range(
+                        int(math.floor(min(a[1], b[1]) / self.cell)),
+                        int(math.floor(max(a[1], b[1]) / self.cell)) + 1,
+                    ):
                         self.grid.setdefault((gx, gy), []).append((a, b))
 
     def nearest(self, p, reach=1):
@@ -569,7 +662,9 @@ def place_homes(town, rng):
         if any(pt is not None and dist(p, pt) < 40.0 for _, _, _, pt in SCHOOLS):
             return False
         d = roads.nearest(p)
-        return 5.0 <= d <= 30.0 and d >= own_d - 0.01 and foot.nearest(p) >= 4.0 and clear_of_homes(p)
+        return (
+            5.0 <= d <= 30.0 and d >= own_d - 0.01 and foot.nearest(p) >= 4.0 and clear_of_homes(p)
+        )
 
     def put(p):
         homes.append(p)
@@ -578,7 +673,9 @@ def place_homes(town, rng):
     for st in town.streets:
         props = st["props"]
         cls = props["class"]
-        if cls not in ("collector", "local") and not (cls == "arterial" and props.get("speed_kmh") == 60):
+        if cls not in ("collector", "local") and not (
+            cls == "arterial" and props.get("speed_kmh") == 60
+        ):
             continue
         pts = st["keys"]
         length = line_length(pts)
@@ -596,8 +693,19 @@ def place_homes(town, rng):
                     put(p)
             s += 34.0 + rng.random() * 16.0
     # A handful of farmhouses along the fast road outside the ring, outside every catchment.
-    for x, side in [(-1470.0, 1), (-1420.0, -1), (1380.0, 1), (1420.0, -1), (1455.0, 1), (1490.0, -1)]:
-        y = -300.0 + (x + 1500.0) * (20.0 / 150.0) if x < 0 else -230.0 + (x - 1350.0) * (30.0 / 150.0)
+    for x, side in [
+        (-1470.0, 1),
+        (-1420.0, -1),
+        (1380.0, 1),
+        (1420.0, -1),
+        (1455.0, 1),
+        (1490.0, -1),
+    ]:
+        y = (
+            -300.0 + (x + 1500.0) * (20.0 / 150.0)
+            if x < 0
+            else -230.0 + (x - 1350.0) * (30.0 / 150.0)
+        )
         p = (x, y + side * (12.0 + rng.random() * 10.0))
         assert roads.nearest(p) >= 5.0
         put(p)
@@ -715,7 +823,17 @@ def build_crossings(town, rng, info):
 
     # Signals: where the ring meets the collectors and the fast road, the collectors' own
     # junctions, one grid junction by the secondary school, and the sidewalk crossing node.
-    for k in [(0.0, RING), (0.0, -RING), (-RING, 450.0), (RING, 450.0), (-RING, -250.0), (0.0, -250.0), (0.0, 450.0), (0.0, 0.0), (-400.0, 450.0)]:
+    for k in [
+        (0.0, RING),
+        (0.0, -RING),
+        (-RING, 450.0),
+        (RING, 450.0),
+        (-RING, -250.0),
+        (0.0, -250.0),
+        (0.0, 450.0),
+        (0.0, 0.0),
+        (-400.0, 450.0),
+    ]:
         on_vertex(k, "signal")
     on_vertex(info["sep_nodes"][0], "signal")
     on_vertex((250.0, 450.0), "signal;guard")
@@ -734,22 +852,36 @@ def build_crossings(town, rng, info):
     major_minor = []
     for k in plain:
         legs = road_legs(k)
-        if any(town.cls(i) in ("arterial", "collector") for i, _ in legs) and all(speed(i) != 80 for i, _ in legs):
+        if any(town.cls(i) in ("arterial", "collector") for i, _ in legs) and all(
+            speed(i) != 80 for i, _ in legs
+        ):
             major_minor += [(k, l) for l in legs if town.cls(l[0]) == "local"]
     pick_legs(major_minor, 12, "stop")
 
     school_legs = [
-        (k, l) for k in plain if fits_near_school(k, 400.0) for l in road_legs(k) if town.cls(l[0]) in ("collector", "local")
+        (k, l)
+        for k in plain
+        if fits_near_school(k, 400.0)
+        for l in road_legs(k)
+        if town.cls(l[0]) in ("collector", "local")
     ]
     pick_legs(school_legs, 9, "marked;guard")
-    raised_legs = [(k, l) for k in plain if fits_near_school(k, 600.0) for l in road_legs(k) if town.cls(l[0]) == "local"]
+    raised_legs = [
+        (k, l)
+        for k in plain
+        if fits_near_school(k, 600.0)
+        for l in road_legs(k)
+        if town.cls(l[0]) == "local"
+    ]
     pick_legs(raised_legs, 5, "raised")
 
     ring_local = []
     for k in plain:
         legs = road_legs(k)
         if any(town.cls(i) == "local" for i, _ in legs):
-            ring_local += [(k, l) for l in legs if town.cls(l[0]) == "arterial" and speed(l[0]) == 60]
+            ring_local += [
+                (k, l) for l in legs if town.cls(l[0]) == "arterial" and speed(l[0]) == 60
+            ]
     pick_legs(ring_local, 5, "refuge")
 
     col_local = []
@@ -783,11 +915,17 @@ def build_crossings(town, rng, info):
 
 
 def feature(geom_type, coords, props):
-    return {"type": "Feature", "geometry": {"type": geom_type, "coordinates": coords}, "properties": props}
+    return {
+        "type": "Feature",
+        "geometry": {"type": geom_type, "coordinates": coords},
+        "properties": props,
+    }
 
 
 def write_collection(path, features):
-    lines = [json.dumps(f, sort_keys=True, separators=(",", ":"), ensure_ascii=False) for f in features]
+    lines = [
+        json.dumps(f, sort_keys=True, separators=(",", ":"), ensure_ascii=False) for f in features
+    ]
     text = '{"type":"FeatureCollection","features":[\n' + ",\n".join(lines) + "\n]}\n"
     path.write_text(text, encoding="utf-8")
 
@@ -804,9 +942,11 @@ def make(out_dir):
     bad = [
         (a, b)
         for a, b in unnoded_crossings(town)
-        if {a, b} != {town.streets.index(next(s for s in town.streets if s["keys"] == info["footbridge"])), town.streets.index(next(s for s in town.streets if s["keys"] == info["fast_mid"]))}
+        if {a, b} != {info["footbridge_idx"], info["fast_mid_idx"]}
     ]
-    assert not bad, [(town.streets[a]["props"].get("name"), town.streets[b]["props"].get("name")) for a, b in bad]
+    assert not bad, [
+        (town.streets[a]["props"].get("name"), town.streets[b]["props"].get("name")) for a, b in bad
+    ]
 
     streets = []
     for n, st in enumerate(town.streets):
@@ -838,17 +978,23 @@ def make(out_dir):
         props = {"id": "H%04d" % (n + 1), "children": children}
         if n in choice:
             own = catchment_of(p)
-            props["school"] = rng.choice([s for s in (elementary if own != "S3" else ids) if s != own])
+            props["school"] = rng.choice(
+                [s for s in (elementary if own != "S3" else ids) if s != own]
+            )
         homes.append(feature("Point", lonlat(p), props))
 
     catchments = []
     for sid, ring in CATCHMENTS:
-        catchments.append(feature("Polygon", [[lonlat(p) for p in ring + [ring[0]]]], {"school": sid}))
+        catchments.append(
+            feature("Polygon", [[lonlat(p) for p in ring + [ring[0]]]], {"school": sid})
+        )
 
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
     write_collection(out / "streets.geojson", streets)
-    write_collection(out / "crossings.geojson", [feature("Point", c["coords"], c["props"]) for c in crossings])
+    write_collection(
+        out / "crossings.geojson", [feature("Point", c["coords"], c["props"]) for c in crossings]
+    )
     write_collection(out / "schools.geojson", schools)
     write_collection(out / "homes.geojson", homes)
     write_collection(out / "catchments.geojson", catchments)
@@ -949,8 +1095,9 @@ nearest school by walking).
   exactly there (one signal, one `marked;raised`). Saffron Mews is a service lane behind it.
   Saffron Green Elementary (S2) is a Polygon with two entrances.
 - **Meadow Park** straddles the fast road: foot paths, a loop, one flight of steps, and the
-  **Meadow Footbridge** ({s['footbridge_m']} m, `layer: 1`) over Gannet Road. The footbridge shares its end vertices with
-  the park paths on both sides and no vertex with the road beneath, which has no vertex there.
+  **Meadow Footbridge** ({s['footbridge_m']} m, `layer: 1`) over Gannet Road. The footbridge
+  shares its end vertices with the park paths on both sides and no vertex with the road beneath,
+  which has no vertex there.
 - **South-west and south-east suburbs**: curving 30-40 km/h streets (Willow Crescent, Maple
   Drive, Meadow Lane, Linden Way), loops (Heron Loop, Curlew Circle, a turning loop at the end of
   Larch Close), cul-de-sacs, and a pedestrian cut-through with steps from Plover Close down to

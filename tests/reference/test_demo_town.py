@@ -88,7 +88,9 @@ def test_generator_is_deterministic(tmp_path):
     for name in FILES:
         fresh = (tmp_path / "a" / name).read_bytes()
         assert fresh == (tmp_path / "b" / name).read_bytes(), f"{name} differs between runs"
-        assert fresh == (TOWN / name).read_bytes(), f"committed {name} is stale: rerun the generator"
+        assert (
+            fresh == (TOWN / name).read_bytes()
+        ), f"committed {name} is stale: rerun the generator"
 
 
 def test_every_control_kind_is_present_often():
@@ -170,6 +172,39 @@ def test_catchments_name_schools_and_do_not_overlap():
     assert choice >= 1
 
 
+def test_catchments_tile_a_square_without_gaps():
+    def area(ring):
+        return 0.5 * sum(a[0] * b[1] - b[0] * a[1] for a, b in zip(ring, ring[1:]))
+
+    rings = [
+        [metres(c) for c in f["geometry"]["coordinates"][0]] for f in load("catchments.geojson")
+    ]
+    areas = [area(r) for r in rings]
+    assert all(a > 0 for a in areas), "exterior rings run counter-clockwise (RFC 7946)"
+    xs = [p[0] for r in rings for p in r]
+    ys = [p[1] for r in rings for p in r]
+    box = (max(xs) - min(xs)) * (max(ys) - min(ys))
+    assert abs(sum(areas) - box) < 1e-6 * box
+
+
+def test_no_accidental_near_coincident_vertices():
+    # Distinct vertices closer than the 0.5 m snap tolerance would merge silently.
+    vertices = sorted(
+        {tuple(c) for s in load("streets.geojson") for c in s["geometry"]["coordinates"]}
+    )
+    pts = [metres(v) for v in vertices]
+    cell = {}
+    for n, p in enumerate(pts):
+        cell.setdefault((int(p[0] // 5), int(p[1] // 5)), []).append(n)
+    for (gx, gy), members in cell.items():
+        for n in members:
+            for dx in (-1, 0, 1):
+                for dy in (-1, 0, 1):
+                    for m in cell.get((gx + dx, gy + dy), ()):
+                        if m > n:
+                            assert math.dist(pts[n], pts[m]) >= 1.0, (vertices[n], vertices[m])
+
+
 def test_footbridge_is_grade_separated_from_the_fast_road():
     streets = load("streets.geojson")
     bridges = [s for s in streets if s["properties"]["layer"] == 1]
@@ -189,20 +224,30 @@ def test_footbridge_is_grade_separated_from_the_fast_road():
             crosses(pts[i], pts[i + 1], a, b) for i in range(len(pts) - 1) for a, b in fast_segs
         ), "the footbridge passes over the fast road"
         near = min(
-            seg_dist(metres(v), pts[i], pts[i + 1]) for v in fast_vertices for i in range(len(pts) - 1)
+            seg_dist(metres(v), pts[i], pts[i + 1])
+            for v in fast_vertices
+            for i in range(len(pts) - 1)
         )
         assert near > 20.0, "the fast road must have no vertex under the bridge"
         for end in (line[0], line[-1]):
             others = [
                 s
                 for s in streets
-                if s is not b and s["properties"]["class"] == "path" and end in s["geometry"]["coordinates"]
+                if s is not b
+                and s["properties"]["class"] == "path"
+                and end in s["geometry"]["coordinates"]
             ]
             assert others, "each bridge end is shared with an approach path"
 
 
 def test_coordinates_are_wgs84_and_in_the_ocean():
-    for name in ("streets.geojson", "crossings.geojson", "schools.geojson", "homes.geojson", "catchments.geojson"):
+    for name in (
+        "streets.geojson",
+        "crossings.geojson",
+        "schools.geojson",
+        "homes.geojson",
+        "catchments.geojson",
+    ):
         for f in load(name):
             stack = [f["geometry"]["coordinates"]]
             while stack:
@@ -220,7 +265,9 @@ def test_street_properties_follow_the_plain_preset():
     assert len(set(ids)) == len(ids)
     for s in streets:
         p = s["properties"]
-        assert p["class"] in CLASSES and isinstance(p["layer"], int) and isinstance(p["oneway"], bool)
+        assert (
+            p["class"] in CLASSES and isinstance(p["layer"], int) and isinstance(p["oneway"], bool)
+        )
         if p["class"] not in ("path", "steps"):
             assert p["sidewalk"] in SIDEWALKS and p["lanes"] >= 1 and p["speed_kmh"] > 0
     assert any(s["properties"].get("median_m", 0) >= 2.5 for s in streets)
@@ -295,7 +342,9 @@ def test_separate_sidewalk_crossings_sit_on_shared_vertices():
     for s in separate:
         for v in s["geometry"]["coordinates"][1:-1]:
             paths = [
-                o for o in streets if o["properties"]["class"] == "path" and v in o["geometry"]["coordinates"]
+                o
+                for o in streets
+                if o["properties"]["class"] == "path" and v in o["geometry"]["coordinates"]
             ]
             if paths:
                 assert tuple(v) in crossings, "a crossing node needs a control point"
