@@ -121,7 +121,7 @@ pub fn audit(
         "summary": export::summary_json(&out),
         "homes_csv": export::homes_csv(&out),
         "routes": export::routes_geojson(&out),
-        "qa": export::qa_geojson(&out),
+        "qa": export::qa_geojson(&out.network.qa),
         "centrelines": export::centrelines_geojson(&out),
         "layers": {
             "crossings": out.layers.crossings,
