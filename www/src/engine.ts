@@ -99,14 +99,23 @@ export class Engine {
   }
 
   /** Runs one audit in the worker. */
-  async audit(layers: string, config: string, onProgress: (p: Progress) => void): Promise<AuditResult> {
+  audit(layers: string, config: string, onProgress: (p: Progress) => void): Promise<AuditResult> {
     if (!this.ready) this.start();
-    await this.ready;
     const id = this.nextId++;
     return new Promise((resolve, reject) => {
+      // Registered before the worker is ready, so that a cancel in between rejects it too.
       this.pending.set(id, { resolve, reject, onProgress });
-      const msg: ToWorker = { type: 'audit', id, layers, config };
-      this.worker?.postMessage(msg);
+      const post = async () => {
+        await this.ready;
+        if (!this.pending.has(id)) return;
+        if (!this.worker) return reject(new Error('the audit worker is not running'));
+        const msg: ToWorker = { type: 'audit', id, layers, config };
+        this.worker.postMessage(msg);
+      };
+      post().catch((e: Error) => {
+        this.pending.delete(id);
+        reject(e);
+      });
     });
   }
 

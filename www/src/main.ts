@@ -363,7 +363,13 @@ document.addEventListener('drop', async (e) => {
 });
 
 // Exposed for the end-to-end tests and for planners who script the page.
-(window as unknown as Record<string, unknown>).catchwalk = { catchmentsCsv: () => view && catchmentsCsv(view), download };
+(window as unknown as Record<string, unknown>).catchwalk = {
+  map: map.map,
+  select,
+  homes: () => view?.homes.map((h) => ({ id: h.id, at: h.at, status: h.status, schoolId: h.schoolId })) ?? [],
+  catchmentsCsv: () => view && catchmentsCsv(view),
+  download,
+};
 
 renderLayerList();
 renderLegend();
