@@ -11,7 +11,7 @@ WEB_CLI := $(WEB_TARGET_DIR)/release/catchwalk
 WBG_VERSION := $(shell awk '/^name = "wasm-bindgen"$$/ { getline; gsub(/"/, "", $$3); print $$3; exit }' Cargo.lock)
 WEB_PORT := $(or $(PORT),8000)
 
-.PHONY: web-setup web-build web-serve web-test web-check
+.PHONY: web-setup web-build web-serve web-test
 
 web-setup:
 	@rustup target list --installed 2>/dev/null | grep -qx wasm32-unknown-unknown || rustup target add wasm32-unknown-unknown
@@ -21,13 +21,12 @@ web-setup:
 	  cd www && npm ci; fi
 	@[ -x /usr/bin/chromium ] || (apt-get update && apt-get install -y chromium)
 
-web-check: web-setup
-	cd www && npx tsc --noEmit -p .
-
-web-build: web-setup web-check
+# Type-checks the page against the wasm bindings' declarations, then bundles it.
+web-build: web-setup
 	cargo build --lib --target wasm32-unknown-unknown --profile release-wasm -p catchwalk
 	rm -rf www/build/wasm
 	wasm-bindgen --target web --out-dir www/build/wasm --out-name catchwalk $(WEB_WASM)
+	cd www && npx tsc --noEmit -p .
 	node www/build.mjs
 
 web-serve: web-build

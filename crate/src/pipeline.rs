@@ -119,6 +119,20 @@ pub fn run_audit(
     Ok(out)
 }
 
+/// Rounds a cost to a multiple of 2^-20 m (about a micrometre), exactly representable, so
+/// sums along paths are exact and routes that tie in exact arithmetic tie in both the native
+/// and the wasm build (their trigonometry can differ in the last bit and would break such
+/// ties differently).
+///
+/// ```
+/// use catchwalk::pipeline::quantize_cost;
+/// assert_eq!(quantize_cost(0.1 + 0.2), quantize_cost(0.3));
+/// ```
+pub fn quantize_cost(x: f64) -> f64 {
+    const SCALE: f64 = 1_048_576.0;
+    (x * SCALE).round() / SCALE
+}
+
 /// Edge costs for a route kind: walked metres, plus risk in metres for the recommended route.
 pub fn edge_costs(
     network: &Network,
@@ -130,12 +144,12 @@ pub fn edge_costs(
     g.edges
         .iter()
         .map(|e| match kind {
-            RouteKind::Shortest => e.length_m,
-            RouteKind::Recommended => {
+            RouteKind::Shortest => quantize_cost(e.length_m),
+            RouteKind::Recommended => quantize_cost(
                 e.length_m
                     + config.route.metres_per_risk_point
-                        * edge_risk_points(g, e, &layers.streets, &config.risk)
-            }
+                        * edge_risk_points(g, e, &layers.streets, &config.risk),
+            ),
         })
         .collect()
 }

@@ -52,11 +52,15 @@ export async function guardedPage(browser, viewport = { width: 1500, height: 900
   return { context, page, leaks, errors };
 }
 
-/** Waits until the page has finished `n` audits (data-audits on body). */
+/**
+ * Waits until the page has finished `n` audits (data-audits on body); an audit that fails
+ * in between (data-failures grows) fails the wait with the page's messages.
+ */
 export async function waitAudits(page, n, timeout = 60_000) {
-  await page.waitForFunction((k) => Number(document.body.dataset.audits ?? 0) >= k || document.body.dataset.audit === 'failed', n, { timeout });
-  const state = await page.evaluate(() => document.body.dataset.audit);
-  if (state === 'failed') {
+  const failures = await page.evaluate(() => Number(document.body.dataset.failures ?? 0));
+  await page.waitForFunction(([k, f]) => Number(document.body.dataset.audits ?? 0) >= k || Number(document.body.dataset.failures ?? 0) > f,
+    [n, failures], { timeout });
+  if (await page.evaluate((f) => Number(document.body.dataset.failures ?? 0) > f, failures)) {
     const msg = await page.evaluate(() => document.getElementById('messages')?.innerText ?? '');
     throw new Error(`audit failed in the page: ${msg}`);
   }

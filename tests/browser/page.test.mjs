@@ -54,6 +54,14 @@ async function figures(page) {
   })));
 }
 
+const audits = (page) => page.evaluate(() => Number(document.body.dataset.audits ?? 0));
+
+/** Types a value into a setting and leaves the field, as a planner does. */
+async function setValue(page, selector, value) {
+  await page.locator(selector).fill(value);
+  await page.locator(selector).blur();
+}
+
 const metres = (s) => Number(String(s).replace(/[^0-9.]/g, ''));
 
 test('served page: demo town, a home, CSV export, settings, a user file, cancel', async () => {
@@ -95,9 +103,9 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
 
   // A slower walking speed: the same home's walking time moves by 1.07 / 0.8; re-audit timing.
   const before = Number(fig['Walking time'].recommended.replace(' min', ''));
-  await page.fill('#set-benefit-walking_speed_mps', '0.8');
-  await page.dispatchEvent('#set-benefit-walking_speed_mps', 'change');
-  await waitAudits(page, 2);
+  let n = await audits(page);
+  await setValue(page, '#set-benefit-walking_speed_mps', '0.8');
+  await waitAudits(page, n + 1);
   const fig2 = await figures(page);
   const afterMin = Number(fig2['Walking time'].recommended.replace(' min', ''));
   assert.ok(Math.abs(afterMin - (before * 1.07) / 0.8) <= 0.1, `walking time ${before} -> ${afterMin}`);
@@ -107,9 +115,9 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
 
   // A smaller walk zone: fewer children in it, the table moves.
   const zoneBefore = await page.evaluate(() => window.catchwalk.homes().filter((h) => h.status !== 'beyond').length);
-  await page.fill('#set-benefit-walk_zone_m', '500');
-  await page.dispatchEvent('#set-benefit-walk_zone_m', 'change');
-  await waitAudits(page, 3);
+  n = await audits(page);
+  await setValue(page, '#set-benefit-walk_zone_m', '500');
+  await waitAudits(page, n + 1);
   const zoneAfter = await page.evaluate(() => window.catchwalk.homes().filter((h) => h.status !== 'beyond').length);
   assert.ok(zoneAfter < zoneBefore, `homes inside the walk zone ${zoneBefore} -> ${zoneAfter}`);
 
@@ -131,28 +139,33 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   homes.features = homes.features.slice(0, 40);
   const mine = join(tmp, 'my-homes.geojson');
   writeFileSync(mine, JSON.stringify(homes));
+  n = await audits(page);
   await page.setInputFiles('#file-homes', mine);
-  await waitAudits(page, 4);
+  await waitAudits(page, n + 1);
   assert.match(await page.locator('#status').innerText(), /^40 homes/);
   assert.match(await page.locator('[data-layer="homes"] .fname').innerText(), /my-homes\.geojson/);
 
   // A projected streets file: the error names the layer and feature.
   const bad = join(tmp, 'projected-streets.geojson');
   writeFileSync(bad, JSON.stringify({ type: 'FeatureCollection', features: [{ type: 'Feature', properties: { id: 'P1', class: 'local' }, geometry: { type: 'LineString', coordinates: [[500000, 4650000], [500100, 4650000]] } }] }));
+  const failures = await page.evaluate(() => Number(document.body.dataset.failures ?? 0));
   await page.setInputFiles('#file-streets', bad);
-  await page.waitForFunction(() => document.body.dataset.audit === 'failed');
+  await page.waitForFunction((f) => Number(document.body.dataset.failures ?? 0) > f, failures);
   const err = await page.locator('#messages li.error').innerText();
   assert.match(err, /reproject/i);
   assert.match(err, /streets · feature 0/);
   await page.screenshot({ path: join(shots, '06-error.png') });
 
   // Cancel: an audit started and cancelled at once stops; the next one runs.
+  n = await audits(page);
   await page.setInputFiles('#file-streets', join(demo, 'streets.geojson'));
-  await waitAudits(page, 5);
+  await waitAudits(page, n + 1);
   await page.evaluate(() => { document.getElementById('run').click(); document.getElementById('cancel').click(); });
   await page.waitForFunction(() => document.body.dataset.audit === 'cancelled');
+  n = await audits(page);
   await page.click('#run');
-  await waitAudits(page, 6);
+  await waitAudits(page, n + 1);
+  assert.match(await page.locator('#status').innerText(), /^40 homes/);
 
   // The printable report.
   await page.selectOption('#report-scope', { index: 1 });

@@ -10,6 +10,14 @@ Chart.defaults.animation = false;
 
 const charts = new Map<string, Chart>();
 
+/** Colours of the core's balance classes (walk-zone share and safe-route share). */
+export const QUADRANT_COLOR: Record<string, string> = {
+  walkable_and_safe: 'rgba(47,125,91,0.75)',
+  walkable_but_unsafe: 'rgba(224,123,57,0.8)',
+  far_but_safe: 'rgba(120,140,160,0.75)',
+  far_and_unsafe: 'rgba(142,27,44,0.8)',
+};
+
 function replace(id: string, make: (c: HTMLCanvasElement) => Chart) {
   charts.get(id)?.destroy();
   const canvas = document.getElementById(id) as HTMLCanvasElement | null;
@@ -54,6 +62,26 @@ function quadrants(xMid: number, yMid: number): Plugin<'scatter'> {
   };
 }
 
+/** Writes each catchment's school name beside its point. */
+const pointNames: Plugin<'scatter'> = {
+  id: 'pointNames',
+  afterDatasetsDraw(chart) {
+    const { ctx } = chart;
+    const meta = chart.getDatasetMeta(0);
+    ctx.save();
+    ctx.font = '10.5px system-ui, sans-serif';
+    ctx.fillStyle = '#203b3e';
+    meta.data.forEach((pt, i) => {
+      const d = chart.data.datasets[0].data[i] as unknown as { name: string };
+      const short = d.name.replace(/ (Elementary|Secondary)? ?School$/, '');
+      const right = pt.x < chart.chartArea.right - 90;
+      ctx.textAlign = right ? 'left' : 'right';
+      ctx.fillText(short, pt.x + (right ? 9 : -9), pt.y + 3 + (i % 2 ? 9 : -4));
+    });
+    ctx.restore();
+  },
+};
+
 export function drawCharts(view: View) {
   const pts = view.catchments.filter((c) => c.riskPerTrip !== null && c.activeMin !== null);
   const xMid = median(pts.map((c) => c.riskPerTrip as number));
@@ -65,22 +93,22 @@ export function drawCharts(view: View) {
         label: 'catchments',
         data: pts.map((c) => ({ x: c.riskPerTrip as number, y: c.activeMin as number, name: c.name || c.schoolId, children: c.children })),
         pointRadius: pts.map((c) => 4 + Math.sqrt(c.children) / 2),
-        backgroundColor: 'rgba(27,95,167,0.55)',
-        borderColor: '#1b5fa7',
+        backgroundColor: pts.map((c) => QUADRANT_COLOR[c.quadrant ?? ''] ?? 'rgba(27,95,167,0.55)'),
+        borderColor: '#203b3e',
       }],
     },
     options: {
       maintainAspectRatio: false,
       plugins: {
         legend: { display: false },
-        tooltip: { callbacks: { label: (c) => { const d = c.raw as { name: string; x: number; y: number; children: number }; return `${d.name}: ${d.y.toFixed(1)} active min/day, risk ${d.x.toFixed(3)}/trip, ${d.children} children`; } } },
+        tooltip: { callbacks: { label: (c) => { const d = c.raw as { name: string; x: number; y: number; children: number }; return `${d.name}: ${d.y.toFixed(1)} active min/day, risk ${d.x.toFixed(2)}/trip, ${d.children} children`; } } },
       },
       scales: {
         x: { title: { display: true, text: 'mean risk per trip (points)' }, beginAtZero: true },
         y: { title: { display: true, text: 'active minutes a day (two trips)' }, beginAtZero: true },
       },
     },
-    plugins: [quadrants(xMid, yMid)],
+    plugins: [quadrants(xMid, yMid), pointNames],
   }));
 
   // Route lengths, weighted by children, in 200 m bins, the walk zone marked.
@@ -114,7 +142,12 @@ export function drawCharts(view: View) {
   }));
 
   const hot = [...view.hotspots]
-    .map((f) => ({ label: String(f.properties['label'] ?? f.properties['name'] ?? f.properties['id'] ?? ''), v: Number(f.properties['children_x_risk'] ?? f.properties['score'] ?? 0) }))
+    .map((f) => {
+      const p = f.properties;
+      const what = p['kind'] === 'crossing' ? `× ${String(p['control'] ?? '').replace(/_/g, ' ')}` : `along, ${String(p['control'] ?? '').replace(/_/g, ' ').replace('sidewalk ', 'sidewalk ')}`;
+      const street = String(p['street'] ?? '');
+      return { label: `${String(p['rank'] ?? '')}. ${street.length > 18 ? `${street.slice(0, 17)}…` : street} ${what}`, v: Number(p['product'] ?? 0) };
+    })
     .sort((a, b) => b.v - a.v)
     .slice(0, 10);
   replace('c-hotspots', (canvas) => new Chart(canvas, {
@@ -124,14 +157,20 @@ export function drawCharts(view: View) {
       indexAxis: 'y',
       maintainAspectRatio: false,
       plugins: { legend: { display: false }, title: { display: hot.length === 0, text: 'No hotspots in this audit' } },
-      scales: { x: { title: { display: true, text: 'children routed × risk points' }, beginAtZero: true } },
+      scales: { x: { title: { display: true, text: 'children routed × risk points' }, beginAtZero: true }, y: { ticks: { autoSkip: false, font: { size: 10.5 } } } },
     },
   }));
 }
 
-/** The charts as images, for the printable report. */
+const CAPTIONS: Record<string, string> = {
+  'c-scatter': 'Benefit against risk, per catchment (district)',
+  'c-lengths': 'Shortest route lengths against the walk zone (district)',
+  'c-hotspots': 'Top hotspots: children × risk (district)',
+};
+
+/** The charts as images with their captions, for the printable report. */
 export function chartImages(): Record<string, string> {
   const out: Record<string, string> = {};
-  for (const [id, c] of charts) out[id] = c.toBase64Image('image/png', 1);
+  for (const [id, c] of charts) out[CAPTIONS[id] ?? id] = c.toBase64Image('image/png', 1);
   return out;
 }

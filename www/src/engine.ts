@@ -59,6 +59,7 @@ export class Engine {
   >();
   defaultConfig = '{}';
   caution = '';
+  ruleSets: Record<string, string> = {};
 
   /** Starts (or restarts) the worker; resolves once the core is loaded in it. */
   start(): Promise<void> {
@@ -73,6 +74,7 @@ export class Engine {
           if (m.type === 'ready') {
             this.defaultConfig = m.defaultConfig;
             this.caution = m.caution;
+            this.ruleSets = m.ruleSets;
             w.onmessage = (e2: MessageEvent<FromWorker>) => this.receive(e2.data);
             resolve();
           }

@@ -157,6 +157,7 @@ async function runAudit(fit: boolean) {
       $('progress-text').textContent = `${p.stage}${p.total > 1 ? ` ${p.done} / ${p.total}` : ''}`;
     });
     const doc = JSON.parse(res.docText) as AuditDoc;
+    $('mapnote').hidden = true;
     const tParsed = performance.now();
     view = buildView(doc);
     await map.show(view, layerJson('catchments'), fitNow);
@@ -182,6 +183,12 @@ async function runAudit(fit: boolean) {
       try { m = JSON.parse(msg) as Message; } catch { /* plain text */ }
       renderMessages([], null, m);
       setStatus('The audit stopped on an error in the data: see “Problems in the data”.');
+      $('messages-card').scrollIntoView({ block: 'nearest' });
+      if (view) {
+        $('mapnote').textContent = 'The audit stopped on an error in the data; the map still shows the last audit that ran.';
+        $('mapnote').hidden = false;
+      }
+      document.body.dataset.failures = String(Number(document.body.dataset.failures ?? 0) + 1);
       setState('failed');
     }
   } finally {
@@ -236,7 +243,11 @@ function select(kind: 'home' | 'catchment', id: string) {
   reselect();
   showTab('sel');
   if (!view) return;
-  if (kind === 'catchment') {
+  if (kind === 'home') {
+    const h = view.byId.get(id);
+    const routes = [h?.shortest, h?.recommended].filter((x): x is NonNullable<typeof x> => !!x) as Feature[];
+    if (routes.length) map.fit(routes, 17);
+  } else {
     const routes = view.homes.filter((h) => h.schoolId === id && h.recommended).map((h) => h.recommended as Feature);
     const poly = layerJson('catchments')?.features.filter((_, i) => view?.doc.layers.catchments.find((c) => c.feature === i)?.school_id === id) ?? [];
     map.fit(poly.length ? poly : routes, 16);
@@ -271,7 +282,10 @@ function renderLegend() {
   const sw = (color: string, cls = 'sw') => el('span', { class: cls, style: `background:${color}` });
   const icon = (key: string) => el('img', { class: 'icon', src: deviceImage(key, 32).canvas.toDataURL(), alt: '' });
   const row = (mark: HTMLElement, text: string) => el('div', { class: 'lrow' }, mark, el('span', {}, text));
+  const toggle = el('button', { type: 'button', class: 'legend-toggle', id: 'legend-toggle' }, 'Legend');
+  toggle.addEventListener('click', () => $('legend').classList.toggle('folded'));
   $('legend').replaceChildren(
+    toggle,
     el('h4', {}, 'Streets by speed'),
     ...SPEED_BANDS.map((b) => row(sw(b.color, 'sw line'), b.label)),
     row(el('span', { class: 'sw line dash', style: `border-color:${PATH_COLOR}` }), 'foot path / steps'),
@@ -280,7 +294,7 @@ function renderLegend() {
     ...DEVICES.map((d) => row(icon(d.key), d.label)),
     el('h4', {}, 'Homes'),
     ...HOME_STATUS.map((s) => row(sw(s.color, 'sw dot'), s.label)),
-    el('p', { class: 'small' }, 'Larger circles: homes grouped at this zoom, sized by children, redder with more unsafe routes.'),
+    el('p', { class: 'small' }, 'Larger circles: homes grouped at this zoom, sized by children; green when all have a safe route, orange when none has.'),
     el('h4', {}, 'Routes'),
     row(el('span', { class: 'sw line dash', style: `border-color:${ROUTE_STYLE.shortest.color}` }), ROUTE_STYLE.shortest.label),
     row(sw(ROUTE_STYLE.recommended.color, 'sw line thick'), ROUTE_STYLE.recommended.label),
@@ -309,9 +323,14 @@ async function printReport() {
   const scope = ($('report-scope') as HTMLSelectElement).value || null;
   showTab('charts');
   drawCharts(view);
+  // The legend folds away so the capture frames the scope alone.
+  const legend = $('legend');
+  const wasOpen = !legend.classList.contains('folded');
+  legend.classList.add('folded');
   if (scope) select('catchment', scope);
   else { selected = null; reselect(); map.fit(view.doc.centrelines); }
   await new Promise<void>((r) => map.map.once('idle', () => r()));
+  if (wasOpen) legend.classList.remove('folded');
   const fl: Record<string, string> = {};
   for (const k of LAYER_KEYS) if (files[k]) fl[k] = files[k]?.name ?? '';
   buildReport($('report'), { view, scope, mapImage: map.image(), charts: chartImages(), files: fl, settings: settings.json(), caution: engine.caution || view.doc.summary.caution });
@@ -375,7 +394,7 @@ renderLayerList();
 renderLegend();
 setState('starting');
 engine.start().then(() => {
-  settings.init(engine.defaultConfig);
+  settings.init(engine.defaultConfig, engine.ruleSets);
   setState('idle');
   if (typeof CATCHWALK_AUTODEMO !== 'undefined' && CATCHWALK_AUTODEMO) loadDemo();
 }).catch((e) => {

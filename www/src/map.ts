@@ -68,14 +68,14 @@ export class AuditMap {
       clusterRadius: 36,
       clusterProperties: {
         children: ['+', ['get', 'children']],
-        unsafe: ['+', ['case', ['==', ['get', 'status'], 'unsafe'], ['get', 'children'], 0]],
+        safe: ['+', ['case', ['==', ['get', 'status'], 'safe'], ['get', 'children'], 0]],
       },
     });
     m.addLayer({
       id: 'catchments-fill',
       type: 'fill',
       source: 'catchments',
-      paint: { 'fill-color': ['coalesce', ['get', 'shade'], '#cccccc'], 'fill-opacity': 0.42 },
+      paint: { 'fill-color': ['coalesce', ['get', 'shade'], '#cccccc'], 'fill-opacity': 0.3 },
     });
     m.addLayer({
       id: 'catchments-line',
@@ -165,8 +165,8 @@ export class AuditMap {
       filter: ['has', 'point_count'],
       paint: {
         'circle-color': [
-          'interpolate', ['linear'], ['/', ['get', 'unsafe'], ['max', 1, ['get', 'children']]],
-          0, HOME_STATUS[0].color, 0.5, '#d9a441', 1, HOME_STATUS[1].color,
+          'interpolate', ['linear'], ['/', ['get', 'safe'], ['max', 1, ['get', 'children']]],
+          0, HOME_STATUS[1].color, 0.5, '#d9b441', 1, HOME_STATUS[0].color,
         ],
         'circle-opacity': 0.8,
         'circle-stroke-color': '#ffffff',
@@ -246,20 +246,20 @@ export class AuditMap {
       })),
     });
     this.set('qa', doc.qa);
-    const maxHot = Math.max(1e-9, ...view.hotspots.map((f) => Number(f.properties['children_x_risk'] ?? f.properties['score'] ?? 0)));
+    const maxHot = Math.max(1e-9, ...view.hotspots.map((f) => Number(f.properties['product'] ?? 0)));
     this.set('hotspots', {
       type: 'FeatureCollection',
       features: view.hotspots.map((f) => ({
         ...f,
         geometry: pointOf(f),
-        properties: { ...f.properties, weight: Number(f.properties['children_x_risk'] ?? f.properties['score'] ?? 0) / maxHot },
+        properties: { ...f.properties, weight: Number(f.properties['product'] ?? 0) / maxHot },
       })),
     });
     this.setCatchments(view, catchmentFile, null);
     this.setSchools(view);
     if (fit) {
       const b = bounds(doc.centrelines);
-      if (b) this.map.fitBounds(b, { padding: 30, duration: 0 });
+      if (b) this.map.fitBounds(b, { padding: this.padding(20), duration: 0 });
     }
   }
 
@@ -308,9 +308,16 @@ export class AuditMap {
     });
   }
 
+  /** Room on the left for the legend when it is open, so fitted features are not under it. */
+  private padding(extra: number) {
+    const legend = document.getElementById('legend');
+    const left = legend && !legend.classList.contains('folded') ? legend.offsetWidth + 20 : 0;
+    return { top: extra, bottom: extra, right: extra, left: left + extra };
+  }
+
   fit(fc: FeatureCollection | Feature[], maxZoom = 17) {
     const b = bounds({ type: 'FeatureCollection', features: Array.isArray(fc) ? fc : fc.features });
-    if (b) this.map.fitBounds(b, { padding: 60, maxZoom, duration: 300 });
+    if (b) this.map.fitBounds(b, { padding: this.padding(50), maxZoom, duration: 300 });
   }
 
   image(): string {

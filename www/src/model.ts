@@ -4,7 +4,7 @@
 import { csvObjects } from './csv';
 import type { AuditDoc, Feature, FeatureCollection, LonLat, RouteProps } from './types';
 
-export type HomeStatus = 'safe' | 'unsafe' | 'beyond' | 'unreached';
+export type HomeStatus = 'safe' | 'unsafe' | 'hazardous' | 'beyond' | 'unreached';
 
 export interface HomeView {
   idx: number;
@@ -16,6 +16,8 @@ export interface HomeView {
   recommended: Feature<RouteProps> | null;
   status: HomeStatus;
   reasons: string[];
+  /** The home's row of the core's homes.csv (score columns: active minutes, waits, ...). */
+  row: Record<string, string>;
 }
 
 export interface CatchmentView {
@@ -32,6 +34,10 @@ export interface CatchmentView {
   riskPerTrip: number | null;
   meanShortestM: number | null;
   meanUncontrolled: number | null;
+  /** Children on hazardous routes (core scores only). */
+  hazardous: number | null;
+  /** The core's balance class: walkable_and_safe, walkable_but_unsafe, far_but_safe, ... */
+  quadrant: string | null;
 }
 
 export interface View {
@@ -60,14 +66,15 @@ function interimReasons(r: RouteProps): string[] {
   return out;
 }
 
-function coreReasons(r: RouteProps): string[] | null {
-  const safe = r['safe'];
+/** The core's verdict on a recommended route, when the core scores routes. */
+function coreVerdict(r: RouteProps): { status: HomeStatus; reasons: string[] } | null {
+  const safe = r['safe_route'];
   if (typeof safe !== 'boolean') return null;
-  if (safe) return [];
-  const why = r['unsafe_reasons'] ?? r['reasons'] ?? r['why'];
-  if (Array.isArray(why)) return why.map(String);
-  if (typeof why === 'string' && why) return [why];
-  return ['fails the safe-route test'];
+  const split = (x: unknown) => (typeof x === 'string' && x ? x.split(/;\s*(?=[a-z0-9-]+:)/) : []);
+  if (r['hazardous'] === true) return { status: 'hazardous', reasons: [...new Set([...split(r['hazard_reason']), ...split(r['unsafe_reason'])])] };
+  if (safe) return { status: 'safe', reasons: [] };
+  const reasons = split(r['unsafe_reason']);
+  return { status: 'unsafe', reasons: reasons.length ? reasons : ['fails the safe-route test'] };
 }
 
 export function buildView(doc: AuditDoc): View {
@@ -80,6 +87,7 @@ export function buildView(doc: AuditDoc): View {
     routes.set(id, e);
   }
   let anyCore = false;
+  const rows = new Map(homesCsvRows(doc).map((r) => [r['home_id'], r]));
   const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
     const r = routes.get(h.id) ?? { shortest: null, recommended: null };
     let status: HomeStatus;
@@ -91,13 +99,16 @@ export function buildView(doc: AuditDoc): View {
       status = 'beyond';
       reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${walkZoneM} m walk zone`];
     } else {
-      const core = coreReasons(r.recommended.properties);
-      if (core) anyCore = true;
-      reasons = core ?? interimReasons(r.recommended.properties);
-      if (r.recommended.properties.over_detour_cap)
+      const core = coreVerdict(r.recommended.properties);
+      if (core) {
+        anyCore = true;
+        ({ status, reasons } = core);
+      } else {
+        reasons = interimReasons(r.recommended.properties);
+        status = reasons.length ? 'unsafe' : 'safe';
+      }
+      if (r.recommended.properties.over_detour_cap && status !== 'safe')
         reasons.push('a safer route would exceed the detour cap, so the shortest stands');
-      status = reasons.length && (core ? core.length > 0 : true) ? 'unsafe' : 'safe';
-      if (core && core.length === 0) status = 'safe';
     }
     return {
       idx,
@@ -109,6 +120,7 @@ export function buildView(doc: AuditDoc): View {
       recommended: r.recommended,
       status,
       reasons,
+      row: rows.get(h.id) ?? {},
     };
   });
   const byId = new Map(homes.map((h) => [h.id, h]));
@@ -135,7 +147,27 @@ function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: Au
   const w = routed.reduce((a, h) => a + h.children, 0);
   const mean = (f: (h: HomeView) => number) => (w > 0 ? routed.reduce((a, h) => a + f(h) * h.children, 0) / w : null);
   const s = doc.summary.schools.find((x) => x.id === schoolId);
-  const coreActive = num(s?.['mean_active_minutes'] ?? s?.['active_minutes_per_day']);
+  const core = (doc.summary['catchments'] as Record<string, unknown>[] | undefined)?.find((c) => c['school_id'] === schoolId);
+  if (core) {
+    return {
+      schoolId,
+      name,
+      homes: members.length,
+      children: num(core['children']) ?? children,
+      inZone: num(core['children_in_walk_zone']) ?? inZoneN,
+      inZoneShare: num(core['walk_zone_share']),
+      safe: num(core['children_safe_route']) ?? safeN,
+      safeShare: num(core['safe_route_share']),
+      deficit: num(core['gap']),
+      activeMin: num(core['mean_active_minutes']),
+      riskPerTrip: num(core['mean_risk_per_trip']),
+      meanShortestM: num(s?.mean_shortest_network_m),
+      meanUncontrolled: num(s?.mean_uncontrolled_crossings),
+      hazardous: num(core['children_hazardous']),
+      quadrant: typeof core['quadrant'] === 'string' ? (core['quadrant'] as string) : null,
+    };
+  }
+  const coreActive = num(s?.['mean_active_minutes']);
   return {
     schoolId,
     name,
@@ -151,6 +183,8 @@ function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: Au
     riskPerTrip: num(s?.mean_risk_per_trip) ?? mean((h) => h.recommended?.properties.risk ?? 0),
     meanShortestM: num(s?.mean_shortest_network_m),
     meanUncontrolled: num(s?.mean_uncontrolled_crossings),
+    hazardous: null,
+    quadrant: null,
   };
 }
 

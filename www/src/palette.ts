@@ -21,7 +21,8 @@ export const CLASS_WIDTH: Record<string, number> = {
 
 export const HOME_STATUS = [
   { key: 'safe', label: 'route passes every safety test', color: '#2f7d5b' },
-  { key: 'unsafe', label: 'route fails a safety test', color: '#c2552d' },
+  { key: 'unsafe', label: 'route fails a safety test', color: '#e07b39' },
+  { key: 'hazardous', label: 'hazardous route', color: '#8e1b2c' },
   { key: 'beyond', label: 'beyond the walk zone', color: '#8c8c8c' },
   { key: 'unreached', label: 'no route found', color: '#111111' },
 ] as const;

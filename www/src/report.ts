@@ -41,13 +41,13 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
     el('p', { class: 'caution' }, r.caution),
     el('img', { class: 'report-map', src: r.mapImage, alt: 'map of the audited network' }),
     el('h2', {}, 'Children by route'),
-    el('table', { class: 'figures' }, el('tbody', {},
-      ...[['Safe route (passes every test)', byStatus('safe')], ['Route fails a safety test', byStatus('unsafe')], ['Beyond the walk zone', byStatus('beyond')], ['No route found', byStatus('unreached')]]
+    el('table', { class: 'figures narrow' }, el('tbody', {},
+      ...[['Safe route (passes every test)', byStatus('safe')], ['Route fails a safety test', byStatus('unsafe')], ['Hazardous route', byStatus('hazardous')], ['Beyond the walk zone', byStatus('beyond')], ['No route found', byStatus('unreached')]]
         .map(([k, v]) => el('tr', {}, el('th', {}, String(k)), el('td', {}, `${v} (${fmt.pct(children ? Number(v) / children : null)})`))))),
     el('h2', {}, 'Catchments'),
     table,
     el('h2', {}, 'Charts'),
-    el('div', { class: 'report-charts' }, ...Object.values(r.charts).map((src) => el('img', { src, alt: 'chart' }))),
+    el('div', { class: 'report-charts' }, ...Object.entries(r.charts).map(([caption, src]) => el('figure', {}, el('img', { src, alt: caption }), el('figcaption', {}, caption)))),
     el('h2', {}, 'Method'),
     el('p', {}, 'Streets are split into their two sides; corners join at every junction and each leg of a junction is a crossing with the control the crossings layer gives it. Every home is routed to its school twice: the shortest walk, and a recommended walk that trades length against risk (each risk point is worth a set number of metres) within a detour cap. Each route is audited for its length, walking time, the crossings it makes and what controls them, and the distance walked beside traffic or without a sidewalk. Risk is an index, not a prediction of injuries.'),
     el('p', {}, `Settings: walk zone ${cfg.benefit?.walk_zone_m} m, walking speed ${cfg.benefit?.walking_speed_mps} m/s, detour cap ${cfg.route?.detour_cap}×, ${cfg.route?.metres_per_risk_point} m per risk point.`),

@@ -34,6 +34,7 @@ const ROWS: Row[] = [
 const STATUS_TEXT: Record<string, string> = {
   safe: 'Safe route: passes every test',
   unsafe: 'Not a safe route',
+  hazardous: 'Hazardous route',
   beyond: 'Beyond the walk zone',
   unreached: 'No route found',
 };
@@ -61,11 +62,28 @@ export function homePanel(view: View, h: HomeView): HTMLElement {
     el('p', { class: 'muted' }, `${h.children} child${h.children === 1 ? '' : 'ren'} · school ${school?.name ?? h.schoolId ?? '–'}`),
     verdict,
     view.safeSource === 'interim'
-      ? el('p', { class: 'small muted' }, 'Safe-route test: no uncontrolled crossing and no stretch without a sidewalk, inside the walk zone (interim reading until the core scores routes).')
-      : null,
+      ? el('p', { class: 'small muted' }, 'Safe-route test: no uncontrolled crossing and no stretch without a sidewalk, inside the walk zone (interim reading: this core does not score routes).')
+      : el('p', { class: 'small muted' }, 'Safe route: inside the walk zone and no rule of the rule set fires on the recommended route (see Settings).'),
     table,
+    dailyTable(h),
     el('p', { class: 'small muted' }, 'Dashed dark line: shortest route. Wide blue line: recommended route (length plus risk, within the detour cap).'),
   );
+}
+
+/** The core's per-home score columns (homes.csv), when the core scores routes. */
+function dailyTable(h: HomeView): HTMLElement | null {
+  const r = h.row;
+  if (!('active_minutes' in r) || r['active_minutes'] === '') return null;
+  const n = (k: string) => Number(r[k]);
+  const rows: [string, string][] = [
+    ['Active minutes a day (two trips)', fmt.min(n('active_minutes'))],
+    ['Share of the 60 daily minutes (WHO 2020)', fmt.pct(n('guideline_share'))],
+    ['Energy a day', `${Math.round(n('energy_kcal'))} kcal`],
+    ['Longest wait at an uncontrolled crossing', r['longest_wait_s'] ? `${Math.round(n('longest_wait_s'))} s${r['longest_wait_los'] ? ` (level of service ${r['longest_wait_los']})` : ''}` : '–'],
+  ];
+  return el('table', { class: 'figures', id: 'home-daily' },
+    el('thead', {}, el('tr', {}, el('th', { colspan: '2' }, 'Recommended route, every school day'))),
+    el('tbody', {}, ...rows.map(([k, v]) => el('tr', {}, el('th', {}, k), el('td', {}, v)))));
 }
 
 export function catchmentPanel(view: View, c: CatchmentView): HTMLElement {
@@ -75,6 +93,8 @@ export function catchmentPanel(view: View, c: CatchmentView): HTMLElement {
     ['In the walk zone', `${c.inZone} (${fmt.pct(c.inZoneShare)})`],
     ['With a safe route', `${c.safe} (${fmt.pct(c.safeShare)})`],
     ['Deficit (walk zone − safe)', fmt.pct(c.deficit)],
+    ['On hazardous routes', c.hazardous === null ? '–' : String(c.hazardous)],
+    ['Balance', c.quadrant ? c.quadrant.replace(/_/g, ' ') : '–'],
     ['Active minutes a day (two trips)', fmt.min(c.activeMin)],
     ['Risk per trip (points)', fmt.n(c.riskPerTrip, 3)],
     ['Mean shortest route', fmt.m(c.meanShortestM)],

@@ -1,64 +1,105 @@
-// Settings: the numeric fields of the core's config, with labels a planner reads.
+// Settings: walk zone, walking speed, detour cap, risk weight, the safe-route rule set and its
+// thresholds, read from (and written back into) the core's config.
 
 import { el } from './dom';
 
-type Cfg = Record<string, Record<string, unknown>>;
+type Obj = Record<string, unknown>;
 
 const LABELS: Record<string, [string, string]> = {
   'benefit.walk_zone_m': ['Walk zone', 'm of network distance'],
-  'benefit.walking_speed_mps': ["Child's walking speed", 'm/s'],
+  'benefit.walking_speed_mps': ["Child's walking speed", 'm/s (1.07 = 3.5 ft/s)'],
   'route.detour_cap': ['Detour cap', '× the shortest route'],
-  'route.metres_per_risk_point': ['Weight of risk', 'm of detour per risk point'],
+  'route.metres_per_risk_point': ['Weight of risk', 'm of detour worth one risk point'],
+  'score.walkable_share': ['Walkable catchment', 'share of children in the walk zone'],
+  'score.safe_share': ['Safe catchment', 'share of children with a safe route'],
 };
 
-/** Sections shown; network building settings stay in the config file. */
-const SECTIONS = ['benefit', 'route', 'safe', 'safety', 'score'];
+/** Rule thresholds a planner may move, with their wording. */
+const RULE_FIELDS: Record<string, string> = {
+  speed_kmh_gt: 'speed above (km/h)',
+  speed_kmh_ge: 'speed at least (km/h)',
+  lanes_ge: 'lanes at least',
+  shoulder_m_lt: 'shoulder narrower than (m)',
+  width_m_gt: 'wider than (m)',
+  vehicles_15min_gt: 'vehicles in 15 min above',
+  roadway_width_m_lt: 'roadway narrower than (m)',
+  min_length_m: 'over a length of at least (m)',
+};
 
-const readable = (k: string) => k.replace(/_/g, ' ').replace(/\b(m|mps|kmh)$/, (u) => ({ m: '(m)', mps: '(m/s)', kmh: '(km/h)' })[u] ?? u);
+const get = (o: Obj, path: (string | number)[]): unknown => path.reduce<unknown>((a, k) => (a && typeof a === 'object' ? (a as Obj)[k as string] : undefined), o);
+function set(o: Obj, path: (string | number)[], v: unknown) {
+  let a: Obj = o;
+  for (const k of path.slice(0, -1)) a = a[k as string] as Obj;
+  a[path[path.length - 1] as string] = v;
+}
 
 export class Settings {
-  private base: Cfg = {};
-  private values = new Map<string, number>();
+  private cfg: Obj = {};
+  private defaults = '{}';
+  private ruleSets: Record<string, string> = {};
 
-  constructor(private form: HTMLFormElement, private onChange: () => void) {}
+  constructor(private form: HTMLFormElement, private onChange: () => void) {
+    form.addEventListener('submit', (e) => e.preventDefault());
+  }
 
-  init(defaultJson: string) {
-    try { this.base = JSON.parse(defaultJson) as Cfg; } catch { this.base = {}; }
-    const fields: HTMLElement[] = [];
-    const order = Object.keys(LABELS);
-    const keys: string[] = [];
-    for (const sec of SECTIONS) {
-      const s = this.base[sec];
-      if (!s || typeof s !== 'object') continue;
-      for (const [k, v] of Object.entries(s)) if (typeof v === 'number') keys.push(`${sec}.${k}`);
+  init(defaultJson: string, ruleSets: Record<string, string> = {}) {
+    this.defaults = defaultJson;
+    this.ruleSets = ruleSets;
+    try { this.cfg = JSON.parse(defaultJson) as Obj; } catch { this.cfg = {}; }
+    this.render();
+  }
+
+  private number(path: (string | number)[], label: string, unit: string, id: string): HTMLElement {
+    const v = get(this.cfg, path) as number;
+    const input = el('input', { type: 'number', step: 'any', value: String(v), id });
+    input.addEventListener('change', () => {
+      const n = Number(input.value);
+      if (input.value === '' || !isFinite(n)) { input.value = String(get(this.cfg, path)); return; }
+      set(this.cfg, path, n);
+      this.onChange();
+    });
+    return el('label', { class: 'setting' }, el('span', {}, label), input, unit ? el('small', {}, unit) : null);
+  }
+
+  private render() {
+    const out: HTMLElement[] = [];
+    for (const [key, [label, unit]] of Object.entries(LABELS)) {
+      const path = key.split('.');
+      if (typeof get(this.cfg, path) === 'number') out.push(this.number(path, label, unit, `set-${key.replace('.', '-')}`));
     }
-    keys.sort((a, b) => (order.indexOf(a) + 1 || 99) - (order.indexOf(b) + 1 || 99));
-    for (const key of keys) {
-      const [sec, k] = key.split('.');
-      const v = this.base[sec][k] as number;
-      this.values.set(key, v);
-      const [label, unit] = LABELS[key] ?? [readable(k), ''];
-      const input = el('input', { type: 'number', step: 'any', value: String(v), name: key, id: `set-${key.replace('.', '-')}` });
-      input.addEventListener('change', () => {
-        const n = Number(input.value);
-        if (!isFinite(n) || input.value === '') { input.value = String(this.values.get(key)); return; }
-        this.values.set(key, n);
+    const rules = get(this.cfg, ['score', 'rules']) as Obj | undefined;
+    if (rules && Array.isArray(rules['rules'])) {
+      const names = Object.keys(this.ruleSets);
+      const pick = el('select', { id: 'set-rules' }, ...names.map((n) => el('option', { value: n }, n)));
+      pick.value = String(rules['name'] ?? '');
+      pick.addEventListener('change', () => {
+        const text = this.ruleSets[pick.value];
+        if (!text) return;
+        set(this.cfg, ['score', 'rules'], JSON.parse(text));
+        this.render();
         this.onChange();
       });
-      fields.push(el('label', { class: 'setting' }, el('span', {}, label), input, el('small', {}, unit)));
+      const group = el('fieldset', { class: 'rules' },
+        el('legend', {}, 'Safe-route rules'),
+        names.length > 1 ? el('label', { class: 'setting' }, el('span', {}, 'Rule set'), pick) : null,
+        rules['title'] ? el('p', { class: 'small muted' }, String(rules['title'])) : null);
+      (rules['rules'] as Obj[]).forEach((rule, i) => {
+        const fields = Object.keys(RULE_FIELDS).filter((k) => typeof rule[k] === 'number');
+        if (!fields.length) return;
+        group.append(el('div', { class: `rule v-${String(rule['verdict'])}` },
+          el('p', { class: 'rule-reason' }, el('strong', {}, String(rule['verdict'] ?? '')), ` ${String(rule['reason'] ?? rule['id'])}`),
+          ...fields.map((k) => this.number(['score', 'rules', 'rules', i, k], RULE_FIELDS[k], '', `set-rule-${i}-${k}`))));
+      });
+      out.push(group);
     }
     const reset = el('button', { type: 'button' }, 'Back to defaults');
-    reset.addEventListener('click', () => { this.form.replaceChildren(); this.values.clear(); this.init(defaultJson); this.onChange(); });
-    this.form.replaceChildren(...fields, reset);
+    reset.addEventListener('click', () => { this.init(this.defaults, this.ruleSets); this.onChange(); });
+    out.push(reset);
+    this.form.replaceChildren(...out);
   }
 
   /** The config JSON for the core: defaults with the planner's values. */
   json(): string {
-    const cfg: Cfg = JSON.parse(JSON.stringify(this.base));
-    for (const [key, v] of this.values) {
-      const [sec, k] = key.split('.');
-      cfg[sec][k] = v;
-    }
-    return JSON.stringify(cfg);
+    return JSON.stringify(this.cfg);
   }
 }

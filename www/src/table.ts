@@ -3,16 +3,19 @@
 import { el, fmt } from './dom';
 import type { CatchmentView } from './model';
 
+/** A school's name without the trailing kind of school, for narrow tables. */
+export const shortName = (n: string) => n.replace(/ (Elementary|Secondary|Middle|High|Primary)? ?School$/i, '') || n;
+
 type Col = { key: keyof CatchmentView; label: string; show: (c: CatchmentView) => string };
 
 export const COLUMNS: Col[] = [
-  { key: 'name', label: 'School', show: (c) => c.name || c.schoolId },
+  { key: 'name', label: 'School', show: (c) => shortName(c.name || c.schoolId) },
   { key: 'children', label: 'Children', show: (c) => String(c.children) },
   { key: 'inZoneShare', label: 'In walk zone', show: (c) => fmt.pct(c.inZoneShare) },
   { key: 'safeShare', label: 'Safe route', show: (c) => fmt.pct(c.safeShare) },
   { key: 'deficit', label: 'Deficit', show: (c) => fmt.pct(c.deficit) },
   { key: 'activeMin', label: 'Active min/day', show: (c) => fmt.n(c.activeMin, 1) },
-  { key: 'riskPerTrip', label: 'Risk/trip', show: (c) => fmt.n(c.riskPerTrip, 3) },
+  { key: 'riskPerTrip', label: 'Risk/trip', show: (c) => fmt.n(c.riskPerTrip, 2) },
   { key: 'meanShortestM', label: 'Mean route', show: (c) => fmt.m(c.meanShortestM) },
 ];
 
@@ -45,7 +48,7 @@ export class CatchmentTable {
       return th;
     }));
     const body = sorted.map((r) => {
-      const tr = el('tr', { 'data-school': r.schoolId }, ...COLUMNS.map((c) => el('td', {}, c.show(r))));
+      const tr = el('tr', { 'data-school': r.schoolId, title: r.name }, ...COLUMNS.map((c) => el('td', {}, c.show(r))));
       tr.addEventListener('click', () => this.onPick(r.schoolId));
       return tr;
     });

@@ -138,7 +138,7 @@ export type ToWorker =
   | { type: 'audit'; id: number; layers: string; config: string };
 
 export type FromWorker =
-  | { type: 'ready'; defaultConfig: string; caution: string }
+  | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string> }
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
   | { type: 'done'; id: number; doc: string; ms: number }
   | { type: 'failed'; id: number; error: string };

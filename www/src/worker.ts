@@ -1,6 +1,6 @@
 // The audit worker: holds the wasm core, runs audits off the page's thread, reports progress.
 
-import init, { audit, caution, defaultConfig } from '../build/wasm/catchwalk.js';
+import init, * as core from '../build/wasm/catchwalk.js';
 import type { FromWorker, ToWorker } from './types';
 
 const post = (m: FromWorker) => (self as unknown as Worker).postMessage(m);
@@ -11,7 +11,13 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
   const msg = ev.data;
   if (msg.type === 'init') {
     await init({ module_or_path: msg.module });
-    post({ type: 'ready', defaultConfig: defaultConfig(), caution: caution() });
+    // Rule sets come with cores that score routes; older cores have none.
+    const extra = core as unknown as Record<string, unknown>;
+    const ruleSets: Record<string, string> = {};
+    if (typeof extra['ruleSetNames'] === 'function' && typeof extra['ruleSet'] === 'function') {
+      for (const name of (extra['ruleSetNames'] as () => string[])()) ruleSets[name] = (extra['ruleSet'] as (n: string) => string)(name);
+    }
+    post({ type: 'ready', defaultConfig: core.defaultConfig(), caution: core.caution(), ruleSets });
     return;
   }
   if (msg.type === 'audit') {
@@ -26,7 +32,7 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
       return true;
     };
     try {
-      const doc = audit(msg.layers, msg.config, progress);
+      const doc = core.audit(msg.layers, msg.config, progress);
       post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
     } catch (e) {
       post({ type: 'failed', id: msg.id, error: String(e) });
