@@ -162,7 +162,18 @@ pub struct Attachment {
 
 pub mod attach;
 pub mod build;
+mod components;
+mod corners;
+mod crossings;
+mod dangling;
+mod edges;
+mod noding;
+pub mod pieces;
 pub mod qa;
+mod snap;
+#[cfg(test)]
+mod test_util;
+mod unionfind;
 
 pub use build::{build_network, Network};
 

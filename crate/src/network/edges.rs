@@ -1,0 +1,157 @@
+//! Pedestrian edges: two side edges per road segment (none on a side whose sidewalk is drawn
+//! separately), one path edge per foot-only segment, and a crossing of every leg at every
+//! junction with two or more legs.
+
+use super::corners::Corners;
+use super::crossings::{strongest, End, JunctionControl};
+use super::{PedEdge, PedEdgeKind, Segment, Side};
+use crate::input::{Control, SideWalk, Street};
+use std::collections::HashMap;
+
+/// What the edge builder reads.
+pub(crate) struct EdgeInput<'a> {
+    pub segments: &'a [Segment],
+    pub streets: &'a [Street],
+    pub corners: &'a Corners,
+    pub controls: &'a HashMap<u32, JunctionControl>,
+    pub midblock: &'a [bool],
+    pub lane_width_m: f64,
+}
+
+/// Kerb-to-kerb width: the layer's width, else lanes times the lane width.
+pub(crate) fn crossing_width_m(street: &Street, lane_width_m: f64) -> f64 {
+    if street.class.is_foot_only() {
+        return 0.0;
+    }
+    match street.width_m {
+        Some(w) if w.is_finite() && w >= 0.0 => w,
+        _ => f64::from(street.lanes.max(1)) * lane_width_m.max(0.0),
+    }
+}
+
+/// Builds every edge.
+pub(crate) fn build_edges(inp: &EdgeInput) -> Vec<PedEdge> {
+    let mut edges = Vec::with_capacity(inp.segments.len() * 4);
+    let c = inp.corners;
+    for (s, seg) in inp.segments.iter().enumerate() {
+        let Some(street) = inp.streets.get(seg.street) else {
+            continue;
+        };
+        let [kf, kt] = c.leg_pos.get(s).copied().unwrap_or([0, 0]);
+        // Looking from `from` to `to`: the left side is the from-leg's left looking outward
+        // and the to-leg's right looking outward (that leg points the other way).
+        let left = (c.left_out(seg.from, kf), c.right_out(seg.to, kt));
+        let right = (c.right_out(seg.from, kf), c.left_out(seg.to, kt));
+        if street.class.is_foot_only() {
+            edges.push(PedEdge {
+                a: right.0,
+                b: right.1,
+                kind: PedEdgeKind::Path { segment: s as u32 },
+                length_m: seg.length_m,
+            });
+            continue;
+        }
+        for (side, sidewalk, (a, b)) in [
+            (Side::Left, street.left, left),
+            (Side::Right, street.right, right),
+        ] {
+            if sidewalk == SideWalk::Separate {
+                continue;
+            }
+            edges.push(PedEdge {
+                a,
+                b,
+                kind: PedEdgeKind::Side {
+                    segment: s as u32,
+                    side,
+                    sidewalk,
+                },
+                length_m: seg.length_m,
+            });
+        }
+    }
+    for (j, legs) in c.legs.iter().enumerate() {
+        let j32 = j as u32;
+        let n = legs.len();
+        if n < 2 {
+            continue; // a dead end: both sides already meet in its one corner
+        }
+        let none = JunctionControl::default();
+        let ctl = inp.controls.get(&j32).unwrap_or(&none);
+        let midblock = inp.midblock.get(j).copied().unwrap_or(false);
+        let street_of = |k: usize| {
+            legs.get(k)
+                .and_then(|l| inp.segments.get(l.segment as usize))
+                .and_then(|s| inp.streets.get(s.street))
+        };
+        let is_road = |k: usize| {
+            street_of(k)
+                .map(|s| !s.class.is_foot_only())
+                .unwrap_or(false)
+        };
+        let leg_key = |k: usize| {
+            legs.get(k)
+                .map(|l| (l.segment, l.end))
+                .unwrap_or((0, End::From))
+        };
+        if n == 2 && is_road(0) && is_road(1) {
+            // Both legs of a two-leg junction are crossed at the same spot: one crossing edge,
+            // of the faster (then wider) street, with the strongest control of either leg.
+            let pick = |k: usize| {
+                street_of(k)
+                    .map(|s| (s.speed_kmh, crossing_width_m(s, inp.lane_width_m)))
+                    .unwrap_or((0.0, 0.0))
+            };
+            let (p0, p1) = (pick(0), pick(1));
+            let k = if p1.0 > p0.0 || (p1.0 == p0.0 && p1.1 > p0.1) {
+                1
+            } else {
+                0
+            };
+            let control = strongest(&ctl.of_leg(leg_key(0)), &ctl.of_leg(leg_key(1)));
+            push_crossing(&mut edges, inp, j32, k as u32, legs, control, midblock);
+            continue;
+        }
+        for k in 0..n {
+            let control = if is_road(k) {
+                ctl.of_leg(leg_key(k))
+            } else {
+                Control::UNCONTROLLED
+            };
+            push_crossing(&mut edges, inp, j32, k as u32, legs, control, midblock);
+        }
+    }
+    edges
+}
+
+fn push_crossing(
+    edges: &mut Vec<PedEdge>,
+    inp: &EdgeInput,
+    j: u32,
+    k: u32,
+    legs: &[super::corners::Leg],
+    control: Control,
+    midblock: bool,
+) {
+    let Some(leg) = legs.get(k as usize) else {
+        return;
+    };
+    let Some(street) = inp
+        .segments
+        .get(leg.segment as usize)
+        .and_then(|s| inp.streets.get(s.street))
+    else {
+        return;
+    };
+    edges.push(PedEdge {
+        a: inp.corners.left_out(j, k),
+        b: inp.corners.right_out(j, k),
+        kind: PedEdgeKind::Crossing {
+            junction: j,
+            segment: leg.segment,
+            control,
+            midblock,
+        },
+        length_m: crossing_width_m(street, inp.lane_width_m),
+    });
+}
