@@ -96,7 +96,7 @@ impl SideIndex {
     pub fn attach(&self, graph: &PedGraph, at: LonLat, max_m: f64) -> Option<Attachment> {
         let frame = self.frame.as_ref()?;
         let hit = nearest_on(&self.tree, &graph.segments, frame, at)?;
-        if !(hit.snap_m <= max_m) {
+        if hit.snap_m.is_nan() || hit.snap_m > max_m || max_m.is_nan() {
             return None;
         }
         let w = self.walkable.get(hit.segment as usize)?;

@@ -56,7 +56,17 @@ pub fn build_network(layers: &Layers, cfg: &NetworkConfig) -> Network {
         &frame,
         &mut items,
     );
-    let corners = build_corners(&placed.junctions, &placed.segments);
+    let foot: Vec<bool> = placed
+        .segments
+        .iter()
+        .map(|s| {
+            streets
+                .get(s.street)
+                .map(|st| st.class.is_foot_only())
+                .unwrap_or(false)
+        })
+        .collect();
+    let corners = build_corners(&placed.junctions, &placed.segments, &foot);
     let edges = build_edges(&EdgeInput {
         segments: &placed.segments,
         streets,

@@ -1,5 +1,10 @@
 //! Corners: at each junction the legs are sorted clockwise by bearing, and a corner lies
-//! between each leg and the next. A dead end has one corner, where both sides meet.
+//! between each road leg and the next. A dead end has one corner, where both sides meet.
+//!
+//! Foot-only legs (paths, steps) carry no traffic, so they do not divide the walkable space:
+//! a foot leg lies inside the corner between the road legs on either side of it, and a
+//! junction of foot legs only is one corner. This is what "crossing a foot-only leg is free"
+//! means, without free crossing edges that a route audit would count as crossings.
 
 use super::crossings::End;
 use super::{Corner, Junction, Segment};
@@ -20,6 +25,11 @@ pub(crate) struct Leg {
     pub end: End,
     /// Compass bearing from the junction, radians clockwise from north, in `[0, 2 pi)`.
     pub bearing: f64,
+    /// A road leg (not foot-only).
+    pub road: bool,
+    /// The corner on this leg's left and right, looking outward (the same for a foot leg).
+    pub left: u32,
+    pub right: u32,
 }
 
 /// Legs and corners of every junction.
@@ -28,28 +38,21 @@ pub(crate) struct Corners {
     pub corners: Vec<Corner>,
     /// Legs of each junction, clockwise.
     pub legs: Vec<Vec<Leg>>,
-    /// First corner id of each junction.
-    pub base: Vec<u32>,
     /// Position of each segment's `[from, to]` end in its junction's leg list.
     pub leg_pos: Vec<[u32; 2]>,
 }
 
 impl Corners {
+    fn leg(&self, j: u32, k: u32) -> Option<&Leg> {
+        self.legs.get(j as usize).and_then(|l| l.get(k as usize))
+    }
     /// The corner on leg `k`'s right, looking outward from junction `j` along it.
     pub(crate) fn right_out(&self, j: u32, k: u32) -> u32 {
-        let base = self.base.get(j as usize).copied().unwrap_or(0);
-        base + k
+        self.leg(j, k).map(|l| l.right).unwrap_or(0)
     }
     /// The corner on leg `k`'s left, looking outward.
     pub(crate) fn left_out(&self, j: u32, k: u32) -> u32 {
-        let base = self.base.get(j as usize).copied().unwrap_or(0);
-        let n = self
-            .legs
-            .get(j as usize)
-            .map(|l| l.len() as u32)
-            .unwrap_or(1)
-            .max(1);
-        base + (k + n - 1) % n
+        self.leg(j, k).map(|l| l.left).unwrap_or(0)
     }
 }
 
@@ -83,11 +86,16 @@ fn bearing_of(v: [f64; 2]) -> f64 {
     }
 }
 
-/// Sorts the legs and places the corners.
-pub(crate) fn build_corners(junctions: &[Junction], segments: &[Segment]) -> Corners {
+/// Sorts the legs and places the corners. `foot[s]` says whether segment `s` is foot-only.
+pub(crate) fn build_corners(
+    junctions: &[Junction],
+    segments: &[Segment],
+    foot: &[bool],
+) -> Corners {
     let mut legs: Vec<Vec<Leg>> = vec![Vec::new(); junctions.len()];
     let frames: Vec<LocalFrame> = junctions.iter().map(|j| LocalFrame::new(j.at)).collect();
     for (s, seg) in segments.iter().enumerate() {
+        let road = !foot.get(s).copied().unwrap_or(false);
         for (end, j) in [(End::From, seg.from), (End::To, seg.to)] {
             let (Some(list), Some(frame), Some(jn)) = (
                 legs.get_mut(j as usize),
@@ -102,13 +110,15 @@ pub(crate) fn build_corners(junctions: &[Junction], segments: &[Segment]) -> Cor
                 segment: s as u32,
                 end,
                 bearing: bearing_of([p[0] - o[0], p[1] - o[1]]),
+                road,
+                left: 0,
+                right: 0,
             });
         }
     }
     let mut out = Corners {
         corners: Vec::new(),
         legs: Vec::with_capacity(junctions.len()),
-        base: Vec::with_capacity(junctions.len()),
         leg_pos: vec![[0, 0]; segments.len()],
     };
     for (j, mut list) in legs.into_iter().enumerate() {
@@ -119,25 +129,33 @@ pub(crate) fn build_corners(junctions: &[Junction], segments: &[Segment]) -> Cor
                 .then(a.segment.cmp(&b.segment))
                 .then(a.end.cmp(&b.end))
         });
-        out.base.push(out.corners.len() as u32);
-        let n = list.len();
-        for (k, leg) in list.iter().enumerate() {
-            if let Some(pos) = out.leg_pos.get_mut(leg.segment as usize) {
-                pos[(leg.end == End::To) as usize] = k as u32;
-            }
-            let next = list
-                .get((k + 1) % n)
-                .map(|l| l.bearing)
-                .unwrap_or(leg.bearing);
-            let mut gap = (next - leg.bearing).rem_euclid(TAU);
-            if n == 1 {
+        if list.is_empty() {
+            out.legs.push(list);
+            continue;
+        }
+        let base = out.corners.len() as u32;
+        let roads: Vec<usize> = (0..list.len()).filter(|&k| list[k].road).collect();
+        let m = roads.len();
+        let (Some(frame), Some(jn)) = (frames.get(j), junctions.get(j)) else {
+            out.legs.push(list);
+            continue;
+        };
+        let o = frame.to_xy(jn.at);
+        if m == 0 {
+            out.corners.push(Corner {
+                junction: j as u32,
+                at: jn.at,
+            });
+        }
+        // Corner i lies clockwise after road leg roads[i], up to the next road leg.
+        for (i, &k) in roads.iter().enumerate() {
+            let here = list[k].bearing;
+            let next = list[roads[(i + 1) % m]].bearing;
+            let mut gap = (next - here).rem_euclid(TAU);
+            if m == 1 {
                 gap = TAU; // a dead end's corner sits behind the end
             }
-            let mid = leg.bearing + gap / 2.0;
-            let (Some(frame), Some(jn)) = (frames.get(j), junctions.get(j)) else {
-                continue;
-            };
-            let o = frame.to_xy(jn.at);
+            let mid = here + gap / 2.0;
             let at = frame.to_lonlat([
                 o[0] + CORNER_DRAW_M * mid.sin(),
                 o[1] + CORNER_DRAW_M * mid.cos(),
@@ -146,6 +164,23 @@ pub(crate) fn build_corners(junctions: &[Junction], segments: &[Segment]) -> Cor
                 junction: j as u32,
                 at,
             });
+        }
+        // Walk clockwise: a foot leg sits in the corner of the last road leg before it.
+        let last_road = roads.last().copied();
+        let mut current = last_road.map(|_| (m - 1) as u32).unwrap_or(0);
+        for (k, leg) in list.iter_mut().enumerate() {
+            if leg.road {
+                let i = roads.iter().position(|&r| r == k).unwrap_or(0) as u32;
+                leg.right = base + i;
+                leg.left = base + (i + m as u32 - 1) % m as u32;
+                current = i;
+            } else {
+                leg.left = base + current;
+                leg.right = base + current;
+            }
+            if let Some(pos) = out.leg_pos.get_mut(leg.segment as usize) {
+                pos[(leg.end == End::To) as usize] = k as u32;
+            }
         }
         out.legs.push(list);
     }
@@ -168,7 +203,7 @@ mod tests {
         let s = street(vec![c, [10.0, 49.999]]);
         let w = street(vec![c, [9.999, 50.0]]);
         let noded = node_streets(&[s, w, n, e], 0.0, &LocalFrame::new(c));
-        let corners = build_corners(&noded.junctions, &noded.segments);
+        let corners = build_corners(&noded.junctions, &noded.segments, &[]);
         let centre = noded
             .junctions
             .iter()
@@ -180,7 +215,7 @@ mod tests {
             .collect();
         assert_eq!(order, vec![2, 3, 0, 1], "north, east, south, west");
         // The corner between north and east is to the north-east.
-        let ne = corners.corners[corners.base[centre] as usize].at;
+        let ne = corners.corners[corners.legs[centre][0].right as usize].at;
         assert!(ne[0] > c[0] && ne[1] > c[1]);
     }
 
@@ -190,7 +225,7 @@ mod tests {
         let a = street(vec![c, [10.001, 50.0]]);
         let b = street(vec![c, [10.001, 50.0]]);
         let noded = node_streets(&[a, b], 0.0, &LocalFrame::new(c));
-        let corners = build_corners(&noded.junctions, &noded.segments);
+        let corners = build_corners(&noded.junctions, &noded.segments, &[]);
         assert_eq!(corners.corners.len(), 4);
         assert!(corners.corners.iter().all(|k| k.at[0].is_finite()));
     }

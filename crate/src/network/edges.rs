@@ -1,6 +1,7 @@
 //! Pedestrian edges: two side edges per road segment (none on a side whose sidewalk is drawn
-//! separately), one path edge per foot-only segment, and a crossing of every leg at every
-//! junction with two or more legs.
+//! separately), one path edge per foot-only segment, and a crossing of every road leg at
+//! every junction with two or more road legs. Foot legs need no crossing edge: they lie
+//! inside a corner, so crossing them is free.
 
 use super::corners::Corners;
 use super::crossings::{strongest, End, JunctionControl};
@@ -72,8 +73,9 @@ pub(crate) fn build_edges(inp: &EdgeInput) -> Vec<PedEdge> {
     }
     for (j, legs) in c.legs.iter().enumerate() {
         let j32 = j as u32;
-        let n = legs.len();
-        if n < 2 {
+        // Foot legs lie inside corners (see `corners`): only road legs are crossed.
+        let roads: Vec<usize> = (0..legs.len()).filter(|&k| legs[k].road).collect();
+        if roads.len() < 2 {
             continue; // a dead end: both sides already meet in its one corner
         }
         let none = JunctionControl::default();
@@ -84,40 +86,32 @@ pub(crate) fn build_edges(inp: &EdgeInput) -> Vec<PedEdge> {
                 .and_then(|l| inp.segments.get(l.segment as usize))
                 .and_then(|s| inp.streets.get(s.street))
         };
-        let is_road = |k: usize| {
-            street_of(k)
-                .map(|s| !s.class.is_foot_only())
-                .unwrap_or(false)
-        };
         let leg_key = |k: usize| {
             legs.get(k)
                 .map(|l| (l.segment, l.end))
                 .unwrap_or((0, End::From))
         };
-        if n == 2 && is_road(0) && is_road(1) {
-            // Both legs of a two-leg junction are crossed at the same spot: one crossing edge,
-            // of the faster (then wider) street, with the strongest control of either leg.
+        if let [r0, r1] = roads[..] {
+            // Both road legs of a two-leg junction (a mid-block crossing, a bend) are crossed
+            // at the same spot: one crossing edge, of the faster (then wider) street, with the
+            // strongest control of either leg.
             let pick = |k: usize| {
                 street_of(k)
                     .map(|s| (s.speed_kmh, crossing_width_m(s, inp.lane_width_m)))
                     .unwrap_or((0.0, 0.0))
             };
-            let (p0, p1) = (pick(0), pick(1));
+            let (p0, p1) = (pick(r0), pick(r1));
             let k = if p1.0 > p0.0 || (p1.0 == p0.0 && p1.1 > p0.1) {
-                1
+                r1
             } else {
-                0
+                r0
             };
-            let control = strongest(&ctl.of_leg(leg_key(0)), &ctl.of_leg(leg_key(1)));
+            let control = strongest(&ctl.of_leg(leg_key(r0)), &ctl.of_leg(leg_key(r1)));
             push_crossing(&mut edges, inp, j32, k as u32, legs, control, midblock);
             continue;
         }
-        for k in 0..n {
-            let control = if is_road(k) {
-                ctl.of_leg(leg_key(k))
-            } else {
-                Control::UNCONTROLLED
-            };
+        for &k in &roads {
+            let control = ctl.of_leg(leg_key(k));
             push_crossing(&mut edges, inp, j32, k as u32, legs, control, midblock);
         }
     }
