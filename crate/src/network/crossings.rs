@@ -55,11 +55,8 @@ pub(crate) struct Placed {
 }
 
 /// Two controls at one crossing merged: the stronger device, and any island, raised table or
-/// guard either has (several points on one leg describe one crossing).
-///
-/// ```ignore
-/// let c = strongest(&marked, &signal_with_guard); // signal, guard kept
-/// ```
+/// guard either has (several points on one leg describe one crossing). Guard hours join;
+/// an empty list (on duty at every school travel time) covers any hours.
 pub(crate) fn strongest(a: &Control, b: &Control) -> Control {
     let guard = match (&a.guard, &b.guard) {
         (None, None) => None,
