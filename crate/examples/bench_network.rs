@@ -65,7 +65,7 @@ fn main() {
     for i in 0..n {
         for j in 0..n {
             let id = i * n + j;
-            if id % 8 == 0 {
+            if id.is_multiple_of(8) {
                 layers.crossings.push(CrossingPoint {
                     feature: layers.crossings.len(),
                     id: id.to_string(),
@@ -73,7 +73,7 @@ fn main() {
                     control: signal.clone(),
                     scope: ControlScope::AllLegs,
                 });
-            } else if id % 11 == 0 {
+            } else if id.is_multiple_of(11) {
                 let p = frame.to_lonlat([(i as f64 + 0.5) * block_m, j as f64 * block_m]);
                 layers.crossings.push(CrossingPoint {
                     feature: layers.crossings.len(),
