@@ -616,3 +616,99 @@ fn several_points_on_one_leg_keep_the_strongest_control_and_the_guard() {
     assert_eq!(controlled[0].device, Device::Signal);
     assert_eq!(controlled[0].guard, Some(Vec::new()));
 }
+
+mod random {
+    use super::*;
+    use proptest::prelude::*;
+
+    fn arb_street() -> impl Strategy<Value = (Vec<(i32, i32)>, u8, u8, u8, i32)> {
+        (
+            prop::collection::vec((0..6i32, 0..6i32), 1..6),
+            0..4u8,
+            0..4u8,
+            0..4u8,
+            -1..2i32,
+        )
+    }
+
+    fn side(k: u8) -> SideWalk {
+        [
+            SideWalk::Present,
+            SideWalk::Absent,
+            SideWalk::Unknown,
+            SideWalk::Separate,
+        ][k as usize % 4]
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(200))]
+        /// Lines on a 6 x 6 grid of 20 m cells (so vertices are shared, repeated, looped and
+        /// overlapping), random classes, sidewalks and layers, crossing points anywhere.
+        #[test]
+        fn random_networks_build_consistent_graphs(
+            raw in prop::collection::vec(arb_street(), 0..8),
+            pts in prop::collection::vec((0..120i32, 0..120i32, any::<bool>()), 0..5),
+            tol in prop_oneof![Just(0.0), Just(0.5)],
+        ) {
+            let streets: Vec<Street> = raw
+                .iter()
+                .enumerate()
+                .map(|(i, (p, class, l, r, layer))| {
+                    let line: Vec<(f64, f64)> =
+                        p.iter().map(|&(x, y)| (x as f64 * 20.0, y as f64 * 20.0)).collect();
+                    let mut s = if *class == 3 { path(i, &line) } else { road(i, &line) };
+                    s.left = side(*l);
+                    s.right = side(*r);
+                    s.layer = *layer;
+                    s
+                })
+                .collect();
+            let mut l = layers(streets);
+            for (k, &(x, y, all)) in pts.iter().enumerate() {
+                l.crossings.push(CrossingPoint {
+                    feature: k,
+                    id: k.to_string(),
+                    at: m(x as f64, y as f64),
+                    control: Control { device: Device::Signal, ..Control::UNCONTROLLED },
+                    scope: if all { ControlScope::AllLegs } else { ControlScope::NearestLeg },
+                });
+            }
+            let cfg = NetworkConfig { snap_tolerance_m: tol, ..NetworkConfig::default() };
+            let n = build_network(&l, &cfg);
+            let g = &n.graph;
+            prop_assert_eq!(n.midblock.len(), g.junctions.len());
+            for e in &g.edges {
+                prop_assert!((e.a as usize) < g.corners.len() && (e.b as usize) < g.corners.len());
+                prop_assert!(e.length_m.is_finite() && e.length_m >= 0.0);
+                let seg = &g.segments[e.segment() as usize];
+                match &e.kind {
+                    PedEdgeKind::Side { .. } | PedEdgeKind::Path { .. } => {
+                        prop_assert_eq!(g.corners[e.a as usize].junction, seg.from);
+                        prop_assert_eq!(g.corners[e.b as usize].junction, seg.to);
+                        prop_assert!((e.length_m - seg.length_m).abs() < 1e-9);
+                    }
+                    PedEdgeKind::Crossing { junction, .. } => {
+                        prop_assert_eq!(g.corners[e.a as usize].junction, *junction);
+                        prop_assert_eq!(g.corners[e.b as usize].junction, *junction);
+                        prop_assert!(seg.from == *junction || seg.to == *junction);
+                    }
+                }
+            }
+            for s in &g.segments {
+                prop_assert_eq!(s.line.first(), Some(&g.junctions[s.from as usize].at));
+                prop_assert_eq!(s.line.last(), Some(&g.junctions[s.to as usize].at));
+            }
+            // Without snapping, noding and splitting keep every street's length.
+            if tol == 0.0 {
+                for (i, s) in l.streets.iter().enumerate() {
+                    let pieces: f64 =
+                        g.segments.iter().filter(|x| x.street == i).map(|x| x.length_m).sum();
+                    let whole = catchwalk::geodesy::line_length_m(&s.line);
+                    prop_assert!((pieces - whole).abs() < 1e-6 * whole.max(1.0),
+                        "street {} pieces {} whole {}", i, pieces, whole);
+                }
+            }
+            let _ = walk(&n, &l, (30.0, 30.0), (70.0, 90.0));
+        }
+    }
+}

@@ -14,8 +14,9 @@ struct Walkable {
     path: Option<u32>,
 }
 
-/// Spatial index of side and path edges: the centreline pieces of every segment that has a
-/// walkable edge, in a local metric frame.
+/// Spatial index of side and path edges: the centreline pieces of every segment in a local
+/// metric frame; a query skips segments without a walkable edge (a road whose sidewalks are
+/// drawn separately). The same tree serves the near-miss QA.
 #[derive(Debug, Clone, Default)]
 pub struct SideIndex {
     frame: Option<LocalFrame>,
@@ -91,11 +92,22 @@ impl SideIndex {
         }
     }
 
+    /// The metric frame and the tree of every segment's pieces (empty for an empty graph).
+    pub(crate) fn pieces(&self) -> Option<(&LocalFrame, &RTree<Piece>)> {
+        self.frame.as_ref().map(|f| (f, &self.tree))
+    }
+
     /// The nearest walkable edge to `at` within `max_m`, at the projected point, on the side
     /// of the street where `at` lies (the other side, or the path, if that side has no edge).
     pub fn attach(&self, graph: &PedGraph, at: LonLat, max_m: f64) -> Option<Attachment> {
         let frame = self.frame.as_ref()?;
-        let hit = nearest_on(&self.tree, &graph.segments, frame, at)?;
+        let walkable = |s: u32| {
+            self.walkable
+                .get(s as usize)
+                .map(|w| *w != Walkable::default())
+                .unwrap_or(false)
+        };
+        let hit = nearest_on(&self.tree, &graph.segments, frame, at, walkable)?;
         if hit.snap_m.is_nan() || hit.snap_m > max_m || max_m.is_nan() {
             return None;
         }

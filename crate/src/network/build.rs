@@ -82,15 +82,6 @@ pub fn build_network(layers: &Layers, cfg: &NetworkConfig) -> Network {
         cfg.tiny_component_segments,
         &mut items,
     );
-    end_qa(
-        &placed.junctions,
-        &placed.segments,
-        streets,
-        &placed.midblock,
-        finite_or(cfg.near_miss_m, 0.0),
-        &frame,
-        &mut items,
-    );
     let mut graph = PedGraph {
         junctions: placed.junctions,
         segments: placed.segments,
@@ -100,6 +91,15 @@ pub fn build_network(layers: &Layers, cfg: &NetworkConfig) -> Network {
     };
     graph.index_topology();
     let index = SideIndex::new(&graph);
+    end_qa(
+        &graph.junctions,
+        &graph.segments,
+        streets,
+        &placed.midblock,
+        finite_or(cfg.near_miss_m, 0.0),
+        index.pieces(),
+        &mut items,
+    );
     Network {
         graph,
         index,

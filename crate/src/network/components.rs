@@ -59,3 +59,37 @@ pub(crate) fn component_qa(
     }
     (list.len(), largest as f64 / segments.len() as f64)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geodesy::LocalFrame;
+    use crate::network::noding::node_streets;
+    use crate::network::test_util::street;
+
+    #[test]
+    fn counts_components_and_flags_the_small_ones() {
+        let f = LocalFrame::new([10.0, 50.0]);
+        let m = |x: f64, y: f64| f.to_lonlat([x, y]);
+        // Main: a chain of three segments; apart: one segment.
+        let main = street(vec![m(0.0, 0.0), m(10.0, 0.0)]);
+        let main2 = street(vec![m(10.0, 0.0), m(20.0, 0.0)]);
+        let main3 = street(vec![m(20.0, 0.0), m(30.0, 0.0)]);
+        let mut apart = street(vec![m(0.0, 50.0), m(10.0, 50.0)]);
+        apart.feature = 9;
+        let streets = [main, main2, main3, apart];
+        let n = node_streets(&streets, 0.5, &f);
+        let mut items = Vec::new();
+        let (count, share) = component_qa(&n.junctions, &n.segments, &streets, 2, &mut items);
+        assert_eq!(count, 2);
+        assert!((share - 0.75).abs() < 1e-12);
+        assert_eq!(items.len(), 1);
+        assert_eq!(items[0].feature, Some(9));
+        let mut none = Vec::new();
+        component_qa(&n.junctions, &n.segments, &streets, 1, &mut none);
+        assert!(
+            none.is_empty(),
+            "a one-segment piece is not below a threshold of 1"
+        );
+    }
+}

@@ -111,7 +111,8 @@ pub(crate) fn place_crossings(
     // (old segment, end, every leg?, control)
     let mut at_junction: Vec<(u32, End, bool, Control)> = Vec::new();
     for c in crossings {
-        let hit = nearest_on(&tree, &segments, frame, c.at).filter(|h| h.snap_m <= max_attach_m);
+        let hit = nearest_on(&tree, &segments, frame, c.at, |_| true)
+            .filter(|h| h.snap_m <= max_attach_m);
         let (Some(hit), Some(seg)) = (hit, hit.and_then(|h| segments.get(h.segment as usize)))
         else {
             qa.push(QaItem {

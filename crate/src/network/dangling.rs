@@ -6,11 +6,12 @@
 //! near-miss distance of another segment of the same layer that it did not join is almost
 //! always a gap.
 
-use super::pieces::{nearest_on, piece_tree};
+use super::pieces::{project, Piece};
 use super::qa::{QaItem, QaKind};
 use super::{Junction, Segment};
-use crate::geodesy::LocalFrame;
+use crate::geodesy::{distance_m, LocalFrame};
 use crate::input::Street;
+use rstar::RTree;
 
 /// Appends `DanglingEnd` and `NearMiss` items.
 pub(crate) fn end_qa(
@@ -19,7 +20,7 @@ pub(crate) fn end_qa(
     streets: &[Street],
     midblock: &[bool],
     near_miss_m: f64,
-    frame: &LocalFrame,
+    pieces: Option<(&LocalFrame, &RTree<Piece>)>,
     items: &mut Vec<QaItem>,
 ) {
     let mut degree = vec![0u32; junctions.len()];
@@ -32,7 +33,6 @@ pub(crate) fn end_qa(
             }
         }
     }
-    let tree = piece_tree(segments, frame, |_, _| true);
     for (j, jn) in junctions.iter().enumerate() {
         if degree.get(j) != Some(&1) || midblock.get(j) == Some(&true) {
             continue;
@@ -59,6 +59,9 @@ pub(crate) fn end_qa(
                 ),
             });
         }
+        let Some((frame, tree)) = pieces else {
+            continue;
+        };
         if !(near_miss_m.is_finite() && near_miss_m > 0.0) {
             continue;
         }
@@ -83,9 +86,8 @@ pub(crate) fn end_qa(
             {
                 continue;
             }
-            let Some(on) = nearest_on_segment(os, frame, jn.at) else {
-                continue;
-            };
+            let (_, xy) = project(hit.geom(), q);
+            let on = distance_m(jn.at, frame.to_lonlat(xy));
             if on <= near_miss_m && best.map(|b| on < b.0).unwrap_or(true) {
                 best = Some((on, other));
             }
@@ -108,11 +110,4 @@ pub(crate) fn end_qa(
             });
         }
     }
-}
-
-/// Geodesic distance from `at` to one segment.
-fn nearest_on_segment(seg: &Segment, frame: &LocalFrame, at: crate::input::LonLat) -> Option<f64> {
-    let one = std::slice::from_ref(seg);
-    let tree = piece_tree(one, frame, |_, _| true);
-    nearest_on(&tree, one, frame, at).map(|h| h.snap_m)
 }

@@ -149,3 +149,26 @@ fn push_crossing(
         length_m: crossing_width_m(street, inp.lane_width_m),
     });
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::input::RoadClass;
+    use crate::network::test_util::street;
+
+    #[test]
+    fn crossing_width_prefers_the_layer_width_then_lanes() {
+        let mut s = street(vec![]);
+        assert!((crossing_width_m(&s, 3.5) - 7.0).abs() < 1e-12);
+        s.width_m = Some(11.0);
+        assert_eq!(crossing_width_m(&s, 3.5), 11.0);
+        s.width_m = Some(f64::NAN);
+        s.lanes = 0;
+        assert!(
+            (crossing_width_m(&s, 3.5) - 3.5).abs() < 1e-12,
+            "at least one lane"
+        );
+        s.class = RoadClass::Steps;
+        assert_eq!(crossing_width_m(&s, 3.5), 0.0);
+    }
+}

@@ -263,3 +263,34 @@ mod tests {
         assert_eq!(s.line.len(), 3);
     }
 }
+
+#[cfg(test)]
+mod snap_tests {
+    use super::*;
+    use crate::network::test_util::street;
+
+    fn m(x: f64, y: f64) -> LonLat {
+        LocalFrame::new([10.0, 50.0]).to_lonlat([x, y])
+    }
+
+    #[test]
+    fn an_end_short_of_a_through_street_snaps_onto_its_vertex() {
+        // A T whose stem stops 0.4 m short of the through street's vertex.
+        let through = street(vec![m(-50.0, 0.0), m(0.0, 0.0), m(50.0, 0.0)]);
+        let stem = street(vec![m(0.0, -0.4), m(0.0, -50.0)]);
+        let n = node_streets(&[through, stem], 0.5, &LocalFrame::new([10.0, 50.0]));
+        assert_eq!(n.junctions.len(), 4);
+        assert_eq!(n.segments.len(), 3);
+        // The junction sits on the through street, not at the stem's end.
+        let stem_seg = n.segments.iter().find(|s| s.street == 1).expect("stem");
+        assert_eq!(n.junctions[stem_seg.from as usize].at, m(0.0, 0.0));
+    }
+
+    #[test]
+    fn two_plain_interior_vertices_close_together_do_not_snap() {
+        let a = street(vec![m(-50.0, 0.0), m(0.0, 0.0), m(50.0, 0.0)]);
+        let b = street(vec![m(0.3, -50.0), m(0.3, 0.2), m(0.3, 50.0)]);
+        let n = node_streets(&[a, b], 0.5, &LocalFrame::new([10.0, 50.0]));
+        assert_eq!(n.segments.len(), 2);
+    }
+}

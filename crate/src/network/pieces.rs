@@ -77,18 +77,21 @@ pub(crate) struct OnSegment {
     pub cross: f64,
 }
 
-/// Projects `at` onto the nearest piece of `tree`.
+/// Projects `at` onto the nearest piece of `tree` whose segment `keep` accepts.
 pub(crate) fn nearest_on(
     tree: &RTree<Piece>,
     segments: &[Segment],
     frame: &LocalFrame,
     at: LonLat,
+    keep: impl Fn(u32) -> bool,
 ) -> Option<OnSegment> {
     if !(at[0].is_finite() && at[1].is_finite()) {
         return None;
     }
     let q = frame.to_xy(at);
-    let hit = tree.nearest_neighbor(&q)?;
+    let hit = tree
+        .nearest_neighbor_iter(&q)
+        .find(|p| keep(p.data.segment))?;
     let seg = segments.get(hit.data.segment as usize)?;
     let (_, xy) = project(hit.geom(), q);
     let p = frame.to_lonlat(xy);
