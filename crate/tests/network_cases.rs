@@ -222,6 +222,11 @@ fn midblock_crossing_point_splits_the_segment_and_its_control_is_on_the_route() 
     assert_eq!(a.crossings[0].device, Device::Signal);
     assert_eq!(a.uncontrolled_crossings, 0);
     assert!(close(a.network_m, 20.0, 0.6), "{}", a.network_m);
+    // Staying on one side passes the mid-block junction without crossing.
+    let same = walk(&n, &l, (-10.0, 8.0), (10.0, 8.0)).expect("same side");
+    assert_eq!(same.crossings.len(), 0);
+    assert!(close(same.network_m, 20.0, 0.6));
+    assert!(n.midblock.iter().filter(|&&b| b).count() == 1);
 }
 
 #[test]
