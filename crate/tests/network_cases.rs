@@ -717,3 +717,39 @@ mod random {
         }
     }
 }
+
+#[test]
+fn a_crossing_point_near_a_dead_end_splits_rather_than_vanish() {
+    // 10 m from the end of a cul-de-sac: the dead end has no road leg to cross, so the
+    // point makes its own mid-block crossing.
+    let mut l = layers(vec![
+        road(0, &[(-100.0, 0.0), (0.0, 0.0), (100.0, 0.0)]),
+        road(1, &[(0.0, 0.0), (0.0, 100.0)]),
+    ]);
+    l.crossings.push(CrossingPoint {
+        feature: 0,
+        id: "end".into(),
+        at: m(0.5, 90.0),
+        control: Control {
+            device: Device::Marked,
+            ..Control::UNCONTROLLED
+        },
+        scope: ControlScope::NearestLeg,
+    });
+    let n = net(&l);
+    assert_eq!(n.graph.segments.len(), 4);
+    let marked = n
+        .graph
+        .edges
+        .iter()
+        .filter(|e| matches!(&e.kind, PedEdgeKind::Crossing { control, midblock: true, .. } if control.device == Device::Marked))
+        .count();
+    assert_eq!(marked, 1);
+    let a = walk(&n, &l, (-8.0, 80.0), (8.0, 80.0)).expect("a route");
+    assert_eq!(
+        a.crossings.len(),
+        1,
+        "across at the crosswalk beats walking round the end"
+    );
+    assert_eq!(a.crossings[0].device, Device::Marked);
+}

@@ -1,6 +1,6 @@
 //! Crossing points: each attaches to the nearest road segment. Near a junction (measured
-//! along the segment) its control goes to that junction; farther from both ends it splits the
-//! segment and makes a mid-block junction there.
+//! along the segment) its control goes to that junction; farther from both ends, or near
+//! only a dead end, it splits the segment and makes a mid-block junction there.
 
 use super::noding::Noded;
 use super::pieces::{nearest_on, piece_tree};
@@ -107,6 +107,14 @@ pub(crate) fn place_crossings(
             .unwrap_or(false)
     };
     let tree = piece_tree(&segments, frame, |_, s| is_road(s));
+    let mut road_degree = vec![0u32; junctions.len()];
+    for seg in segments.iter().filter(|s| is_road(s)) {
+        for j in [seg.from, seg.to] {
+            if let Some(d) = road_degree.get_mut(j as usize) {
+                *d += 1;
+            }
+        }
+    }
     let mut splits: HashMap<u32, Vec<Split>> = HashMap::new();
     // (old segment, end, every leg?, control)
     let mut at_junction: Vec<(u32, End, bool, Control)> = Vec::new();
@@ -129,10 +137,19 @@ pub(crate) fn place_crossings(
         };
         let to_from = hit.offset_m;
         let to_to = (seg.length_m - hit.offset_m).max(0.0);
-        let (end, near_m) = if to_from <= to_to {
-            (End::From, to_from)
-        } else {
-            (End::To, to_to)
+        // The nearest end within reach that has a road to cross (a dead end has none: a
+        // point near it splits the segment, so its control is not lost).
+        let crossable = |j: u32| road_degree.get(j as usize).copied().unwrap_or(0) >= 2;
+        let ends = [(End::From, to_from, seg.from), (End::To, to_to, seg.to)];
+        let reach = ends
+            .iter()
+            .filter(|e| e.1 <= attach_m && crossable(e.2))
+            .min_by(|a, b| a.1.total_cmp(&b.1));
+        let nearest = if to_from <= to_to { ends[0] } else { ends[1] };
+        let (end, near_m) = match reach {
+            Some(e) => (e.0, e.1),
+            None if nearest.1 <= AT_JUNCTION_M => (nearest.0, nearest.1),
+            None => (nearest.0, f64::INFINITY),
         };
         if near_m <= attach_m {
             let junction = match end {
