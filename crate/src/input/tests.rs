@@ -388,3 +388,105 @@ fn a_bad_mapping_file_stops_with_a_mapping_error() {
         matches!(read_layers(&raw), Err(Error::Input { at, .. }) if at.layer == LayerName::Mapping)
     );
 }
+
+#[test]
+fn an_osmium_style_export() {
+    let poly = r#"{"type":"Polygon","coordinates":[[[0,0],[0.0001,0],[0.0001,0.0001],[0,0]]]}"#;
+    let streets = fc(&[
+        &feat(poly, r#"{"building":"yes"}"#),
+        &feat(poly, r#"{"highway":"pedestrian","area":"yes"}"#),
+        r#"{"type":"Feature","id":"w10","geometry":{"type":"LineString","coordinates":[[0,0],[0.001,0]]},"properties":{"highway":"residential","maxspeed":"30 mph","sidewalk":"separate","name":"Pine St"}}"#,
+        &feat(
+            &line("[[0,0.0001],[0.001,0.0001]]"),
+            r#"{"@id":"w11","highway":"footway","footway":"sidewalk"}"#,
+        ),
+        &feat(
+            &line("[[0,0.01],[0.01,0.01]]"),
+            r#"{"@id":"w12","highway":"motorway","maxspeed":"110"}"#,
+        ),
+        &feat(
+            &line("[[0,0.02],[0.01,0.02]]"),
+            r#"{"@id":"w13","highway":"service","access":"private"}"#,
+        ),
+        &feat(&point(0.0, 0.0), r#"{"highway":"street_lamp"}"#),
+        &feat(
+            &line("[[0,0],[0.0001,0],[0.0001,0.0001],[0,0]]"),
+            r#"{"highway":"pedestrian","area":"yes"}"#,
+        ),
+    ]);
+    let crossings = fc(&[
+        &feat(
+            &point(0.0, 0.0),
+            r#"{"@id":"n1","highway":"traffic_signals"}"#,
+        ),
+        &feat(
+            &point(0.0005, 0.0),
+            r#"{"@id":"n2","highway":"crossing","crossing":"zebra","crossing:island":"yes"}"#,
+        ),
+        &feat(&point(0.0006, 0.0), r#"{"@id":"n3","amenity":"bench"}"#),
+        &feat(
+            &line("[[0,0],[0.001,0]]"),
+            r#"{"@id":"w20","highway":"footway","footway":"crossing"}"#,
+        ),
+    ]);
+    let raw = RawLayers {
+        streets,
+        crossings: Some(crossings),
+        preset: Preset::Osm,
+        ..base()
+    };
+    let (layers, warnings) = read_layers(&raw).unwrap_or_default();
+    let s: Vec<_> = layers
+        .streets
+        .iter()
+        .map(|s| (s.id.as_str(), s.class, s.left))
+        .collect();
+    assert_eq!(
+        s,
+        vec![
+            ("w10", RoadClass::Local, SideWalk::Separate),
+            ("w11", RoadClass::Path, SideWalk::Unknown)
+        ]
+    );
+    assert!((layers.streets[0].speed_kmh - 48.28).abs() < 0.01);
+    let c: Vec<_> = layers
+        .crossings
+        .iter()
+        .map(|c| {
+            (
+                c.id.as_str(),
+                c.control.device,
+                c.control.refuge_island,
+                c.scope,
+            )
+        })
+        .collect();
+    assert_eq!(
+        c,
+        vec![
+            ("n1", Device::Signal, false, ControlScope::AllLegs),
+            ("n2", Device::Marked, true, ControlScope::NearestLeg),
+        ]
+    );
+    // Only summaries: no warning per skipped feature. The home's school "A" is still known.
+    assert!(
+        warnings
+            .iter()
+            .all(|w| w.message.starts_with("skipped") && w.at.feature.is_none()),
+        "{warnings:?}"
+    );
+    assert_eq!(warnings.len(), 6, "{warnings:?}");
+
+    let only_buildings = fc(&[&feat(poly, r#"{"building":"yes"}"#)]);
+    let raw = RawLayers {
+        streets: only_buildings,
+        ..raw
+    };
+    match read_layers(&raw) {
+        Err(Error::Input { at, message }) => {
+            assert_eq!(at.layer, LayerName::Streets);
+            assert!(message.contains("1 feature(s) were skipped"), "{message}");
+        }
+        other => panic!("{other:?}"),
+    }
+}

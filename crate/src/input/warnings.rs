@@ -69,12 +69,11 @@ impl Warnings {
         for (layer, kind, n) in &self.seen {
             if *n > LISTED_PER_KIND {
                 self.list.push(Warning {
-                    at: Location::layer(*layer).with_property(kind),
+                    at: Location::layer(*layer),
                     message: format!(
-                        "{} more warnings like the ones above were not listed ({} in all); \
-                         fix the property across the layer or map its values in a mapping file",
+                        "{} more '{kind}' warnings like the ones above were not listed ({n} in \
+                         all); fix it across the layer or map its values in a mapping file",
                         n - LISTED_PER_KIND,
-                        n
                     ),
                 });
             }
@@ -113,7 +112,9 @@ mod tests {
         assert_eq!(w.skipped_in(LayerName::Streets), 2);
         let out = w.finish();
         assert_eq!(out.len(), LISTED_PER_KIND + 1 + 2);
-        assert!(out.iter().any(|x| x.message.starts_with("5 more warnings")));
+        assert!(out
+            .iter()
+            .any(|x| x.message.starts_with("5 more 'class' warnings")));
         assert!(out
             .iter()
             .any(|x| x.message == "skipped 2 feature(s): not walkable"));
