@@ -54,6 +54,7 @@ where
         failure: None,
         saw_type: None,
         saw_features: false,
+        reading: None,
     };
     let mut de = serde_json::Deserializer::from_str(text.trim_start_matches('\u{feff}'));
     let outcome = (&mut seed).deserialize(&mut de).and_then(|_| de.end());
@@ -61,9 +62,14 @@ where
         return Err(e);
     }
     if let Err(e) = outcome {
+        let place = seed
+            .reading
+            .map_or(String::new(), |i| format!("feature {i}: "));
         return Err(Error::Parse {
             layer,
-            message: format!("{e}; check that the file is GeoJSON exported as a FeatureCollection"),
+            message: format!(
+                "{place}{e}; check that the file is GeoJSON exported as a FeatureCollection"
+            ),
         });
     }
     match seed.saw_type.as_deref() {
@@ -92,6 +98,8 @@ struct CollectionSeed<F> {
     failure: Option<Error>,
     saw_type: Option<String>,
     saw_features: bool,
+    /// Index of the feature being parsed, while inside the `features` array.
+    reading: Option<usize>,
 }
 
 impl<'de, F> DeserializeSeed<'de> for &mut CollectionSeed<F>
@@ -158,13 +166,16 @@ where
     }
     fn visit_seq<A: SeqAccess<'de>>(self, mut seq: A) -> std::result::Result<(), A::Error> {
         let mut index = 0usize;
+        self.0.reading = Some(index);
         while let Some(feature) = seq.next_element::<RawFeature>()? {
             if let Err(e) = (self.0.each)(index, feature) {
                 self.0.failure = Some(e);
                 return Err(de::Error::custom("stopped"));
             }
             index += 1;
+            self.0.reading = Some(index);
         }
+        self.0.reading = None;
         Ok(())
     }
 }
@@ -301,6 +312,18 @@ mod tests {
                 Err(Error::Parse { layer, .. }) => assert_eq!(layer, LayerName::Streets),
                 other => panic!("{t}: {other:?}"),
             }
+        }
+    }
+
+    #[test]
+    fn a_malformed_feature_is_named() {
+        let t = r#"{"type":"FeatureCollection","features":[{"type":"Feature","geometry":null,"properties":{}},
+            {"type":"Feature","geometry":{"type":"Point","coordinates":"here"},"properties":{}}]}"#;
+        match count(t) {
+            Err(Error::Parse { message, .. }) => {
+                assert!(message.starts_with("feature 1: "), "{message}")
+            }
+            other => panic!("{other:?}"),
         }
     }
 

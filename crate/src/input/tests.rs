@@ -490,3 +490,125 @@ fn an_osmium_style_export() {
         other => panic!("{other:?}"),
     }
 }
+
+mod never_panics {
+    use super::*;
+    use proptest::prelude::*;
+    use serde_json::{json, Value};
+
+    fn value() -> impl Strategy<Value = Value> {
+        prop_oneof![
+            Just(Value::Null),
+            any::<bool>().prop_map(Value::Bool),
+            any::<i64>().prop_map(|i| json!(i)),
+            any::<f64>().prop_map(|f| json!(f)),
+            "[a-z:;0-9 .-]{0,12}".prop_map(Value::String),
+            prop::sample::select(vec![
+                "local",
+                "30 mph",
+                "both",
+                "signal;guard",
+                "07:30-08:00",
+                "-1",
+                "yes"
+            ])
+            .prop_map(|s| json!(s)),
+        ]
+    }
+
+    fn props() -> impl Strategy<Value = Value> {
+        let keys = prop::sample::select(vec![
+            "id",
+            "class",
+            "speed_kmh",
+            "lanes",
+            "sidewalk",
+            "oneway",
+            "layer",
+            "aadt",
+            "width_m",
+            "control",
+            "guard_hours",
+            "children",
+            "school",
+            "highway",
+            "maxspeed",
+            "crossing",
+            "sidewalk:left",
+            "bridge",
+            "width",
+            "entrances",
+            "students",
+        ]);
+        prop::collection::btree_map(keys, value(), 0..8)
+            .prop_map(|m| Value::Object(m.into_iter().map(|(k, v)| (k.to_string(), v)).collect()))
+    }
+
+    fn coords() -> impl Strategy<Value = Value> {
+        let point = prop_oneof![
+            9 => (-180.0..180.0f64, -90.0..90.0f64),
+            1 => (-1e6..1e6f64, -1e6..1e6f64),
+        ];
+        prop::collection::vec(point, 0..4).prop_map(|v| {
+            json!(v
+                .into_iter()
+                .map(|(x, y)| json!([x, y]))
+                .collect::<Vec<_>>())
+        })
+    }
+
+    fn layer(kind: &'static str) -> impl Strategy<Value = String> {
+        prop::collection::vec((coords(), props()), 1..4).prop_map(move |fs| {
+            let features: Vec<Value> = fs
+                .into_iter()
+                .enumerate()
+                .map(|(i, (c, mut p))| {
+                    if kind == "school" {
+                        if let Some(o) = p.as_object_mut() {
+                            o.insert("id".into(), json!(format!("school{i}")));
+                        }
+                    }
+                    let geometry = match kind {
+                        "line" => json!({"type": "LineString", "coordinates": c}),
+                        _ => json!({"type": "Point", "coordinates": c.get(0).cloned().unwrap_or(json!([0, 0]))}),
+                    };
+                    json!({"type": "Feature", "geometry": geometry, "properties": p})
+                })
+                .collect();
+            json!({"type": "FeatureCollection", "features": features}).to_string()
+        })
+    }
+
+    proptest! {
+        #[test]
+        fn any_layers_give_a_result(
+            streets in layer("line"), crossings in layer("point"), schools in layer("school"),
+            homes in layer("point"), osm in any::<bool>(),
+        ) {
+            let raw = RawLayers {
+                streets, crossings: Some(crossings), schools, homes,
+                preset: if osm { Preset::Osm } else { Preset::Plain },
+                ..RawLayers::default()
+            };
+            if let Ok((layers, _)) = read_layers(&raw) {
+                prop_assert!(!layers.streets.is_empty() && !layers.schools.is_empty() && !layers.homes.is_empty());
+                for s in &layers.streets {
+                    prop_assert!(s.line.len() >= 2);
+                    prop_assert!(s.line.windows(2).all(|w| w[0] != w[1]));
+                    prop_assert!(s.line.iter().all(|p| p[0].abs() <= 180.0 && p[1].abs() <= 90.0));
+                    prop_assert!(s.speed_kmh.is_finite() && s.speed_kmh >= 0.0);
+                }
+                prop_assert!(layers.homes.iter().all(|h| h.children >= 1));
+            }
+        }
+
+        #[test]
+        fn any_text_gives_a_result(text in ".{0,200}", csv in any::<bool>()) {
+            let mut raw = base();
+            raw.homes = text.clone();
+            raw.homes_format = if csv { HomesFormat::Csv } else { HomesFormat::GeoJson };
+            raw.mapping = Some(text);
+            let _ = read_layers(&raw);
+        }
+    }
+}
