@@ -57,7 +57,8 @@ pub struct RawLayers {
 /// A mapping file's `base` replaces `preset`; layers the mapping names are read through
 /// its fields with the plain rules.
 pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
-    let mapping = match &raw.mapping {
+    // An optional layer given as blank text (an empty file picker) counts as absent.
+    let mapping = match raw.mapping.as_deref().filter(|t| !t.trim().is_empty()) {
         Some(text) => mapping::parse_mapping(text)?,
         None => mapping::Mapping::default(),
     };
@@ -86,7 +87,7 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
         streets: read::streets(&raw.streets, pick("streets", &street_f), &mut w)?,
         ..Layers::default()
     };
-    if let Some(text) = &raw.crossings {
+    if let Some(text) = raw.crossings.as_deref().filter(|t| !t.trim().is_empty()) {
         layers.crossings = read::crossings(text, pick("crossings", &crossing_f), &mut w)?;
     }
     layers.schools = read::schools(&raw.schools, pick("schools", &school_f), &school_f, &mut w)?;
@@ -95,7 +96,7 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
         HomesFormat::GeoJson => read::homes(&raw.homes, &home_f, &mut w)?,
         HomesFormat::Csv => homes_csv::read_homes_csv(&raw.homes, &home_f, &mut w)?,
     };
-    if let Some(text) = &raw.catchments {
+    if let Some(text) = raw.catchments.as_deref().filter(|t| !t.trim().is_empty()) {
         layers.catchments = read::catchments(text, &fields("catchments", fields::CATCHMENTS))?;
     }
     validate::validate(&mut layers, &mut w)?;

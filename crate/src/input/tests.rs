@@ -612,3 +612,15 @@ mod never_panics {
         }
     }
 }
+
+#[test]
+fn blank_optional_layers_count_as_absent() {
+    let raw = RawLayers {
+        crossings: Some(" \n".into()),
+        catchments: Some(String::new()),
+        mapping: Some(String::new()),
+        ..base()
+    };
+    let (layers, _) = read_layers(&raw).unwrap_or_default();
+    assert_eq!((layers.streets.len(), layers.crossings.len()), (1, 0));
+}
