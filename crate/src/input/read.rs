@@ -143,6 +143,21 @@ pub fn schools(
         let ctx = ctx_of(layer, index, &f, reader);
         let found = type_name(&f.geometry);
         let props = f.properties.unwrap_or_default();
+        if matches!(reader, Reader::Osm) && !osm::is_school(&props) {
+            w.skip(
+                layer,
+                "features not tagged amenity=school (the osm preset reads only those; for a \
+                 schools file of your own, name the schools layer in a mapping file)",
+            );
+            return Ok(());
+        }
+        if matches!(reader, Reader::Osm) && ctx.id.is_none() {
+            return Err(Error::input(
+                ctx.at_prop("@id"),
+                "the school has no OpenStreetMap id; export with ids (osmium export \
+                 --add-unique-id=type_id) or give it an 'id' property",
+            ));
+        }
         let (id, mut name, mut students) = plain::school_attrs(&ctx, &props, fields, w)?;
         if let Reader::Osm = reader {
             name = osm::name(&props).unwrap_or(name);

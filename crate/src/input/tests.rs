@@ -126,15 +126,24 @@ fn wrong_geometry_is_an_error_in_plain_and_skipped_in_osm() {
         other => panic!("{other:?}"),
     }
     raw.preset = Preset::Osm;
-    raw.schools = fc(&[&feat(
-        &point(0.0005, 0.0001),
-        r#"{"@id":"n5","name":"Alder School"}"#,
-    )]);
+    raw.schools = fc(&[
+        &feat(
+            &point(0.0005, 0.0001),
+            r#"{"@id":"n5","amenity":"school","name":"Alder School"}"#,
+        ),
+        &feat(
+            &point(0.0005, 0.0001),
+            r#"{"@id":"n6","amenity":"library"}"#,
+        ),
+    ]);
     let (layers, warnings) = read_layers(&raw).unwrap_or_default();
     assert_eq!(layers.streets.len(), 1);
     assert_eq!(layers.schools[0].id, "n5");
-    // The home's school "A" is unknown now: one warning, plus the skip summary.
-    assert_eq!(warnings.len(), 2, "{warnings:?}");
+    // The home's school "A" is unknown now: one warning, plus two skip summaries.
+    assert_eq!(warnings.len(), 3, "{warnings:?}");
+    assert!(warnings.iter().any(|w| w
+        .message
+        .starts_with("skipped 1 feature(s): features not tagged amenity=school")));
     assert!(warnings
         .iter()
         .any(|w| w.message.starts_with("skipped 1 feature(s): not lines")));
@@ -429,13 +438,22 @@ fn an_osmium_style_export() {
             r#"{"@id":"w20","highway":"footway","footway":"crossing"}"#,
         ),
     ]);
+    let schools = fc(&[&feat(
+        &point(0.0005, 0.0001),
+        r#"{"id":"A","amenity":"school","isced:level":"2"}"#,
+    )]);
     let raw = RawLayers {
         streets,
         crossings: Some(crossings),
+        schools,
         preset: Preset::Osm,
         ..base()
     };
     let (layers, warnings) = read_layers(&raw).unwrap_or_default();
+    assert_eq!(
+        (layers.schools[0].id.as_str(), layers.schools[0].students),
+        ("A", Students::Secondary)
+    );
     let s: Vec<_> = layers
         .streets
         .iter()
@@ -449,6 +467,10 @@ fn an_osmium_style_export() {
         ]
     );
     assert!((layers.streets[0].speed_kmh - 48.28).abs() < 0.01);
+    assert_eq!(
+        (layers.schools[0].id.as_str(), layers.schools[0].students),
+        ("A", Students::Secondary)
+    );
     let c: Vec<_> = layers
         .crossings
         .iter()
@@ -623,4 +645,30 @@ fn blank_optional_layers_count_as_absent() {
     };
     let (layers, _) = read_layers(&raw).unwrap_or_default();
     assert_eq!((layers.streets.len(), layers.crossings.len()), (1, 0));
+}
+
+#[test]
+fn osm_schools_need_an_id() {
+    let raw = RawLayers {
+        schools: fc(&[&feat(
+            &point(0.0, 0.0),
+            r#"{"amenity":"school","name":"Oak"}"#,
+        )]),
+        preset: Preset::Osm,
+        streets: fc(&[&feat(
+            &line("[[0,0],[0.001,0]]"),
+            r#"{"highway":"residential"}"#,
+        )]),
+        ..base()
+    };
+    match read_layers(&raw) {
+        Err(Error::Input { at, message }) => {
+            assert_eq!(
+                (at.layer, at.feature, at.property.as_deref()),
+                (LayerName::Schools, Some(0), Some("@id"))
+            );
+            assert!(message.contains("--add-unique-id"), "{message}");
+        }
+        other => panic!("{other:?}"),
+    }
 }

@@ -322,6 +322,11 @@ pub fn students(props: &Props) -> Students {
     }
 }
 
+/// Whether a feature is a school (`amenity=school`).
+pub fn is_school(props: &Props) -> bool {
+    is(props, "amenity", &["school"])
+}
+
 /// A school's name from `name`.
 pub fn name(props: &Props) -> Option<String> {
     tag(props, "name").map(str::to_string)
