@@ -150,7 +150,7 @@ def osm_audit(tmp_path_factory):
     schools = collection(
         [
             {"type": "Feature", "geometry": {"type": "Point", "coordinates": point_near_street()},
-             "properties": {"id": f"T{k}", "name": f"Test school {k}"}}
+             "properties": {"@id": f"T{k}", "amenity": "school", "name": f"Test school {k}"}}
             for k in range(3)
         ]
     )
