@@ -39,6 +39,10 @@ fn point(props: &str, p: [f64; 2]) -> String {
 /// A main street west-east through a four-way junction with a side street (shared vertex MID),
 /// a school north of the east end and one home north of the west end.
 fn four_way(crossings: Option<String>) -> AuditOutput {
+    four_way_with_home(crossings, [-34.9995, 42.0001])
+}
+
+fn four_way_with_home(crossings: Option<String>, home: [f64; 2]) -> AuditOutput {
     let local = r#""class":"local","speed_kmh":40,"lanes":2,"sidewalk":"both""#;
     let streets = fc(&[
         line("main", local, &[WEST, MID, EAST]),
@@ -51,7 +55,7 @@ fn four_way(crossings: Option<String>) -> AuditOutput {
             r#""id":"S1","name":"East school""#,
             [-34.9965, 42.0001],
         )]),
-        homes: fc(&[point(r#""id":"h1","children":2"#, [-34.9995, 42.0001])]),
+        homes: fc(&[point(r#""id":"h1","children":2"#, home)]),
         homes_format: HomesFormat::GeoJson,
         catchments: None,
         preset: Preset::Plain,
@@ -114,4 +118,25 @@ fn a_signal_at_the_junction_controls_that_crossing() {
     assert_eq!(num(&row, "shortest_crossings"), 1.0);
     assert_eq!(num(&row, "shortest_uncontrolled_crossings"), 0.0);
     assert_eq!(num(&row, "uncontrolled_crossings"), 0.0);
+}
+
+#[test]
+fn a_home_across_the_street_from_the_school_crosses_at_the_door() {
+    // Home on the south side facing the school on the north side of the same block.
+    let out = four_way_with_home(None, [-34.9966, 41.9999]);
+    let row = csv_row(&out);
+    let along = distance_m([-34.9966, 42.0], [-34.9965, 42.0]);
+    assert!(
+        (num(&row, "shortest_network_m") - along).abs() < 0.02,
+        "{row:?}"
+    );
+    assert!((num(&row, "shortest_walked_m") - along - 7.2).abs() < 0.02);
+    assert_eq!(num(&row, "shortest_crossings"), 1.0);
+    assert_eq!(num(&row, "shortest_uncontrolled_crossings"), 1.0);
+    let crossing = &out.homes[0]
+        .shortest
+        .as_ref()
+        .map(|r| r.audit.crossings.clone())
+        .unwrap_or_default();
+    assert!(crossing.iter().all(|c| c.midblock));
 }
