@@ -131,11 +131,11 @@ pub fn entrance_sources(
 pub fn route_to_school(
     graph: &PedGraph,
     tree: &Tree,
+    edge_cost: &[f64],
     home: &Attachment,
     entrances: &[Attachment],
 ) -> Option<Route> {
     let u = frac(graph, home);
-    // Best start: (cost, home option, corner reached or None for a direct walk, entrance opt).
     let mut best: Option<Start> = None;
     let mut consider = |cand: Start| {
         if cand.0.is_finite() && best.as_ref().is_none_or(|b| cand.0 < b.0) {
