@@ -70,7 +70,16 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   await waitAudits(page, 1);
   const status = await page.locator('#status').innerText();
   assert.match(status, /390 homes, 545 children, 5 schools/);
+  console.log(`# first audit of the demo town in the page: ${await page.evaluate(() => document.body.dataset.auditMs)} ms (core ${await page.evaluate(() => document.body.dataset.coreMs)} ms)`);
   await page.screenshot({ path: join(shots, '01-demo-town.png') });
+
+  // A listed problem zooms the map to the feature it concerns.
+  const c0 = await page.evaluate(() => window.catchwalk.map.getCenter().toArray());
+  const moved = page.evaluate(() => new Promise((r) => window.catchwalk.map.once('moveend', r)));
+  await page.click('#messages li.zoomable >> nth=0');
+  await moved;
+  const c1 = await page.evaluate(() => window.catchwalk.map.getCenter().toArray());
+  assert.notDeepEqual(c1, c0, 'the map moved to the problem');
 
   // A home with a route that crosses something: its figures match the CLI's homes.csv row.
   const rows = cliRows();
@@ -144,6 +153,17 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   await waitAudits(page, n + 1);
   assert.match(await page.locator('#status').innerText(), /^40 homes/);
   assert.match(await page.locator('[data-layer="homes"] .fname').innerText(), /my-homes\.geojson/);
+
+  // Drag and drop: a file named for its layer lands in that layer.
+  n = await audits(page);
+  const dt = await page.evaluateHandle((text) => {
+    const d = new DataTransfer();
+    d.items.add(new File([text], 'district-schools.geojson', { type: 'application/geo+json' }));
+    return d;
+  }, readFileSync(join(demo, 'schools.geojson'), 'utf8'));
+  await page.dispatchEvent('#drop', 'drop', { dataTransfer: dt });
+  await waitAudits(page, n + 1);
+  assert.match(await page.locator('[data-layer="schools"] .fname').innerText(), /district-schools\.geojson/);
 
   // A projected streets file: the error names the layer and feature.
   const bad = join(tmp, 'projected-streets.geojson');

@@ -200,6 +200,10 @@ export class AuditMap {
     });
 
     m.on('click', (e) => {
+      const spot = m.queryRenderedFeatures(e.point, { layers: ['hotspots', 'crossings', 'qa'] })[0];
+      if (spot) {
+        new maplibregl.Popup({ closeButton: true, maxWidth: '260px' }).setLngLat(e.lngLat).setDOMContent(popupContent(spot.layer.id, spot.properties)).addTo(m);
+      }
       const hit = m.queryRenderedFeatures(e.point, { layers: ['homes-pt', 'homes-cluster', 'catchments-fill'] });
       const home = hit.find((f) => f.layer.id === 'homes-pt');
       if (home) return this.events.onHome(String(home.properties.id));
@@ -214,7 +218,7 @@ export class AuditMap {
       const c = hit.find((f) => f.layer.id === 'catchments-fill');
       if (c && c.properties.school_id !== undefined) this.events.onCatchment(String(c.properties.school_id));
     });
-    for (const id of ['homes-pt', 'homes-cluster', 'catchments-fill']) {
+    for (const id of ['homes-pt', 'homes-cluster', 'catchments-fill', 'hotspots', 'crossings', 'qa']) {
       m.on('mouseenter', id, () => (m.getCanvas().style.cursor = 'pointer'));
       m.on('mouseleave', id, () => (m.getCanvas().style.cursor = ''));
     }
@@ -323,6 +327,39 @@ export class AuditMap {
   image(): string {
     return this.map.getCanvas().toDataURL('image/png');
   }
+}
+
+/** What a popup says about a hotspot, a crossing point or a network check. */
+function popupContent(layer: string, p: Record<string, unknown>): HTMLElement {
+  const div = document.createElement('div');
+  div.className = 'popup';
+  const line = (k: string, v: unknown) => {
+    if (v === null || v === undefined || v === '') return;
+    const row = document.createElement('div');
+    if (k) {
+      const b = document.createElement('b');
+      b.textContent = `${k}: `;
+      row.append(b);
+    }
+    row.append(String(v));
+    div.append(row);
+  };
+  if (layer === 'hotspots') {
+    line('Hotspot', `#${p['rank']} ${p['kind'] === 'crossing' ? 'crossing of' : 'walking along'} ${p['street']}`);
+    line('Control', String(p['control'] ?? '').replace(/_/g, ' '));
+    line('Traffic', `${p['speed_kmh']} km/h, ${p['lanes']} lanes`);
+    line('Children routed', p['children']);
+    line('Risk of the edge', Number(p['risk']).toFixed(2));
+    line('Children × risk', Number(p['product']).toFixed(1));
+    if (p['wait_s'] !== null && p['wait_s'] !== undefined) line('Average wait', `${Math.round(Number(p['wait_s']))} s (level of service ${p['los']})`);
+  } else if (layer === 'crossings') {
+    line('Crossing', p['id']);
+    line('Control', String(p['symbol']).replace(/_/g, ' ') + (p['island'] ? ' with refuge island' : ''));
+  } else {
+    line('Network check', String(p['kind']).replace(/_/g, ' '));
+    line('', p['message']);
+  }
+  return div;
 }
 
 function pointOf(f: Feature): { type: string; coordinates: unknown } | null {
