@@ -95,7 +95,7 @@ pub fn summary_json(out: &AuditOutput) -> Value {
 
 /// Network figures and QA counts (shared by `audit` and `check`).
 pub fn network_summary(layers: &Layers, g: &PedGraph, qa: &Qa) -> Value {
-    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.edges.iter().filter(|e| f(&e.kind)).count();
+    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.corner_edges().filter(|e| f(&e.kind)).count();
     json!({
         "caution": crate::CAUTION,
         "network": {
@@ -108,6 +108,7 @@ pub fn network_summary(layers: &Layers, g: &PedGraph, qa: &Qa) -> Value {
             "crossing_edges": count(&|k| matches!(k, PedEdgeKind::Crossing { .. })),
             "midblock_crossings": count(&|k| matches!(k, PedEdgeKind::Crossing { midblock: true, .. })),
             "length_km": round2(g.segments.iter().map(|s| s.length_m).sum::<f64>() / 1000.0),
+            "doorstep_crossings": g.edges.iter().filter(|e| PedGraph::is_doorstep(e)).count(),
             "crossing_points": layers.crossings.len(),
         },
         "qa": {
