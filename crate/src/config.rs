@@ -18,7 +18,7 @@ pub struct NetworkConfig {
     pub max_attach_m: f64,
     /// Components with fewer segments than this are reported as tiny in network QA.
     pub tiny_component_segments: usize,
-    /// Two dangling ends in the same layer closer than this (but not merged) are near-misses.
+    /// A dangling end this close to a same-layer street it did not join is a near-miss.
     pub near_miss_m: f64,
 }
 
