@@ -16,6 +16,7 @@ pub struct ScoreConfig {
     /// A catchment is "safe" when at least this share of its children has a route that no
     /// rule flags (common practice: a majority).
     pub safe_share: f64,
+    pub plan: plan::PlanConfig,
 }
 
 impl Default for ScoreConfig {
@@ -24,6 +25,55 @@ impl Default for ScoreConfig {
             rules: rules::RuleSet::default(),
             walkable_share: 0.5,
             safe_share: 0.5,
+            plan: plan::PlanConfig::default(),
         }
+    }
+}
+
+pub mod catchment;
+pub mod home;
+pub mod hotspots;
+pub mod plan;
+
+use crate::config::Config;
+use crate::input::Layers;
+use crate::network::PedGraph;
+use crate::pipeline::HomeResult;
+
+/// Everything the scoring stage produces.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct Scores {
+    /// Indexed like the homes layer.
+    pub homes: Vec<home::HomeScore>,
+    /// Indexed like the schools layer.
+    pub catchments: Vec<catchment::CatchmentScore>,
+    /// Ranked, worst first.
+    pub hotspots: Vec<hotspots::Hotspot>,
+}
+
+/// Scores an audit's routes: homes, catchments, hotspots.
+pub fn score_audit(
+    layers: &Layers,
+    graph: &PedGraph,
+    homes: &[HomeResult],
+    config: &Config,
+) -> Scores {
+    let home_scores = home::score_homes(homes, &layers.schools, graph, &layers.streets, config);
+    let catchments = (0..layers.schools.len())
+        .map(|s| {
+            let members: Vec<(&home::HomeScore, f64)> = homes
+                .iter()
+                .zip(&home_scores)
+                .zip(&layers.homes)
+                .filter(|((h, _), _)| h.assignment.school == Some(s))
+                .map(|((_, sc), lh)| (sc, lh.children as f64))
+                .collect();
+            catchment::score_catchment(s, &members, &config.score)
+        })
+        .collect();
+    Scores {
+        hotspots: hotspots::hotspots(homes, &layers.homes, graph, &layers.streets, config),
+        homes: home_scores,
+        catchments,
     }
 }
