@@ -152,37 +152,7 @@ pub fn audit_layers(
     if !progress.report(Stage::Network, 0, 1) {
         return Err(Error::Cancelled);
     }
-    let mut network = build_network(&layers, &config.network);
-    let max_m = config.network.max_attach_m;
-    let school_att: Vec<Vec<Attachment>> = layers
-        .schools
-        .iter()
-        .map(|s| {
-            s.entrances
-                .iter()
-                .filter_map(|&p| network.index.attach(&network.graph, p, max_m))
-                .collect()
-        })
-        .collect();
-    let home_att: Vec<Option<Attachment>> = layers
-        .homes
-        .iter()
-        .map(|h| network.index.attach(&network.graph, h.at, max_m))
-        .collect();
-    for (s, atts) in school_att.iter().enumerate() {
-        if atts.is_empty() {
-            let school = &layers.schools[s];
-            network.qa.items.push(QaItem {
-                kind: QaKind::UnreachableSchool,
-                at: school.entrances.first().copied().unwrap_or([0.0, 0.0]),
-                feature: Some(school.feature),
-                message: format!(
-                    "school {} is more than {max_m} m from any walkable street",
-                    school.id
-                ),
-            });
-        }
-    }
+    let (mut network, school_att, home_att) = prepare_network(&layers, config);
     let t1 = progress.now_ms();
 
     let walk_cost = edge_costs(&network, &layers, config, RouteKind::Shortest);
@@ -276,12 +246,10 @@ pub fn audit_layers(
     for (i, h) in homes.iter().enumerate() {
         if h.shortest.is_none() {
             let home = &layers.homes[i];
-            let why = if h.attachment.is_none() {
-                format!(
-                    "home {} is more than {max_m} m from any walkable street",
-                    home.id
-                )
-            } else if h.assignment.school.is_none() {
+            if h.attachment.is_none() {
+                continue; // reported by prepare_network
+            }
+            let why = if h.assignment.school.is_none() {
                 format!("home {} has no school it can reach on foot", home.id)
             } else {
                 format!(
@@ -332,4 +300,87 @@ pub fn route_risk(network: &Network, layers: &Layers, config: &Config, route: &R
             share * edge_risk_points(g, e, &layers.streets, &config.risk)
         })
         .sum()
+}
+
+/// The network stage with attachments: the graph, each school's entrances and each home on
+/// the graph, and QA items for schools that reach no walkable street.
+pub fn prepare_network(
+    layers: &Layers,
+    config: &Config,
+) -> (Network, Vec<Vec<Attachment>>, Vec<Option<Attachment>>) {
+    let mut network = build_network(layers, &config.network);
+    let max_m = config.network.max_attach_m;
+    let school_att: Vec<Vec<Attachment>> = layers
+        .schools
+        .iter()
+        .map(|s| {
+            s.entrances
+                .iter()
+                .filter_map(|&p| network.index.attach(&network.graph, p, max_m))
+                .collect()
+        })
+        .collect();
+    let home_att: Vec<Option<Attachment>> = layers
+        .homes
+        .iter()
+        .map(|h| network.index.attach(&network.graph, h.at, max_m))
+        .collect();
+    for (s, atts) in school_att.iter().enumerate() {
+        if atts.is_empty() {
+            let school = &layers.schools[s];
+            network.qa.items.push(QaItem {
+                kind: QaKind::UnreachableSchool,
+                at: school.entrances.first().copied().unwrap_or([0.0, 0.0]),
+                feature: Some(school.feature),
+                message: format!(
+                    "school {} is more than {max_m} m from any walkable street",
+                    school.id
+                ),
+            });
+        }
+    }
+    for (i, att) in home_att.iter().enumerate() {
+        if att.is_none() {
+            let home = &layers.homes[i];
+            network.qa.items.push(QaItem {
+                kind: QaKind::UnreachableHome,
+                at: home.at,
+                feature: Some(home.feature),
+                message: format!(
+                    "home {} is more than {max_m} m from any walkable street",
+                    home.id
+                ),
+            });
+        }
+    }
+    (network, school_att, home_att)
+}
+
+/// What `catchwalk check` reports: layers as read, warnings, the network and its QA.
+#[derive(Debug, Clone)]
+pub struct CheckOutput {
+    pub layers: Layers,
+    pub warnings: Vec<Warning>,
+    pub network: Network,
+}
+
+/// Reads the layers and builds the network without routing: validation and network QA only.
+pub fn check_layers(
+    raw: &RawLayers,
+    config: &Config,
+    progress: &mut dyn Progress,
+) -> Result<CheckOutput> {
+    if !progress.report(Stage::Parsing, 0, 1) {
+        return Err(Error::Cancelled);
+    }
+    let (layers, warnings) = read_layers(raw)?;
+    if !progress.report(Stage::Network, 0, 1) {
+        return Err(Error::Cancelled);
+    }
+    let (network, _, _) = prepare_network(&layers, config);
+    Ok(CheckOutput {
+        layers,
+        warnings,
+        network,
+    })
 }

@@ -4,7 +4,7 @@
 use catchwalk::config::Config;
 use catchwalk::export;
 use catchwalk::input::{HomesFormat, Preset, RawLayers};
-use catchwalk::pipeline::{run_audit, AuditOutput, Progress, Stage};
+use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
 use catchwalk::score::plan::plan_upgrades;
 use catchwalk::score::rules::RuleSet;
 use clap::{Args, Parser, Subcommand, ValueEnum};
@@ -203,7 +203,11 @@ fn run(cli: Cli) -> Result<(), String> {
                 "routes.geojson",
                 &json(&export::routes_geojson(&result)),
             )?;
-            write(&out, "qa.geojson", &json(&export::qa_geojson(&result)))?;
+            write(
+                &out,
+                "qa.geojson",
+                &json(&export::qa_geojson(&result.network.qa)),
+            )?;
             write(
                 &out,
                 "centrelines.geojson",
@@ -276,22 +280,23 @@ fn run(cli: Cli) -> Result<(), String> {
         Command::Check { layers, out } => {
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
-            let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
+            let result = check_layers(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
             for w in &result.warnings {
                 eprintln!("warning: {w}");
             }
-            let s = export::summary_json(&result);
-            println!(
-                "{}",
-                json(
-                    &serde_json::json!({ "network": s["network"], "qa": s["qa"], "warnings": result.warnings.len() })
-                )
-            );
+            let mut s =
+                export::network_summary(&result.layers, &result.network.graph, &result.network.qa);
+            s["warnings"] = serde_json::json!(result.warnings.len());
+            println!("{}", json(&s));
             if let Some(out) = out {
                 std::fs::create_dir_all(&out)
                     .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-                write(&out, "qa.geojson", &json(&export::qa_geojson(&result)))?;
+                write(
+                    &out,
+                    "qa.geojson",
+                    &json(&export::qa_geojson(&result.network.qa)),
+                )?;
             }
             Ok(())
         }

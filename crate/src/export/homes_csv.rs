@@ -1,6 +1,7 @@
 //! `homes.csv`: one row per home. Crossing and exposure columns describe the recommended
 //! route; the same set prefixed `shortest_` describes the shortest route.
 
+use super::edge_side;
 use super::round2;
 use crate::audit::RouteAudit;
 use crate::pipeline::{AuditOutput, AuditedRoute};
@@ -61,7 +62,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
     header.push("risk".into());
     header.extend(ROUTE_COLUMNS.iter().map(|c| format!("shortest_{c}")));
     header.push("shortest_risk".into());
-    header.extend(["attach_segment", "attach_offset_m", "snap_m"].map(String::from));
+    header.extend(["attach_segment", "attach_side", "attach_offset_m", "snap_m"].map(String::from));
     header.extend(super::catchments_csv::HOME_SCORE_COLUMNS.map(String::from));
     let _ = w.write_record(&header);
     let speed = out.config.benefit.walking_speed_mps;
@@ -98,10 +99,11 @@ pub fn homes_csv(out: &AuditOutput) -> String {
             Some(a) => {
                 let e = &g.edges[a.edge as usize];
                 row.push(e.segment().to_string());
+                row.push(edge_side(&e.kind).to_string());
                 row.push(format!("{:.3}", a.offset_m));
                 row.push(round2(a.snap_m).to_string());
             }
-            None => row.extend([String::new(), String::new(), String::new()]),
+            None => row.extend([String::new(), String::new(), String::new(), String::new()]),
         }
         row.extend(super::catchments_csv::home_score_values(
             out.scores.homes.get(i),

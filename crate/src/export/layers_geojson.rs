@@ -3,6 +3,8 @@
 use super::geometry::route_line;
 use super::round2;
 use crate::input::LonLat;
+use crate::network::crossing_width_m;
+use crate::network::qa::Qa;
 use crate::pipeline::{AuditOutput, AuditedRoute};
 use serde_json::{json, Map, Value};
 
@@ -82,10 +84,8 @@ pub fn routes_geojson(out: &AuditOutput) -> Value {
 }
 
 /// Network QA findings as points.
-pub fn qa_geojson(out: &AuditOutput) -> Value {
-    let features = out
-        .network
-        .qa
+pub fn qa_geojson(qa: &Qa) -> Value {
+    let features = qa
         .items
         .iter()
         .map(|q| {
@@ -116,6 +116,7 @@ pub fn centrelines_geojson(out: &AuditOutput) -> Value {
                     "segment": i, "from": s.from, "to": s.to, "length_m": s.length_m,
                     "street_id": st.id, "class": st.class.as_str(), "speed_kmh": st.speed_kmh,
                     "lanes": st.lanes, "layer": st.layer,
+                    "crossing_width_m": crossing_width_m(&out.config.network, st),
                 },
             })
         })

@@ -12,9 +12,24 @@ pub use catchments_csv::{catchments_csv, plan_csv, plan_json};
 pub use homes_csv::homes_csv;
 pub use hotspots::{hotspots_csv, hotspots_geojson};
 pub use layers_geojson::{centrelines_geojson, qa_geojson, routes_geojson};
-pub use summary::summary_json;
+pub use summary::{network_summary, summary_json};
 
 /// Rounds metres (and other figures) for output: two decimals is centimetres.
 pub(crate) fn round2(x: f64) -> f64 {
     (x * 100.0).round() / 100.0
+}
+
+/// `left`, `right` or `path`: which walkable edge a home or entrance is attached to.
+pub(crate) fn edge_side(kind: &crate::network::PedEdgeKind) -> &'static str {
+    use crate::network::{PedEdgeKind, Side};
+    match kind {
+        PedEdgeKind::Side {
+            side: Side::Left, ..
+        } => "left",
+        PedEdgeKind::Side {
+            side: Side::Right, ..
+        } => "right",
+        PedEdgeKind::Path { .. } => "path",
+        PedEdgeKind::Crossing { .. } => "crossing",
+    }
 }

@@ -1,8 +1,10 @@
 //! `summary.json`: network figures, QA counts, per-school figures, timings.
 
-use super::round2;
+use super::{edge_side, round2};
+use crate::input::Layers;
+use crate::network::qa::Qa;
 use crate::network::qa::QaKind;
-use crate::network::PedEdgeKind;
+use crate::network::{PedEdgeKind, PedGraph};
 use crate::pipeline::AuditOutput;
 use serde_json::{json, Value};
 
@@ -14,7 +16,6 @@ fn mean(xs: &[(f64, f64)]) -> Option<f64> {
 /// The summary document.
 pub fn summary_json(out: &AuditOutput) -> Value {
     let g = &out.network.graph;
-    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.edges.iter().filter(|e| f(&e.kind)).count();
     let qa = &out.network.qa;
     let walk_zone = out.config.benefit.walk_zone_m;
     let schools: Vec<Value> = out
@@ -68,34 +69,16 @@ pub fn summary_json(out: &AuditOutput) -> Value {
                 "mean_shortest_network_m": mean(&len).map(round2),
                 "mean_uncontrolled_crossings": mean(&unc).map(round2),
                 "mean_risk_per_trip": mean(&risk).map(|x| (x * 1e4).round() / 1e4),
-                "entrances_attached": out.school_att[s].len(),
+                "entrances": out.school_att[s].iter().map(|a| {
+                    let e = &g.edges[a.edge as usize];
+                    json!({ "segment": e.segment(), "side": edge_side(&e.kind),
+                            "offset_m": a.offset_m, "snap_m": round2(a.snap_m) })
+                }).collect::<Vec<_>>(),
             })
         })
         .collect();
-    json!({
-        "caution": crate::CAUTION,
-        "network": {
-            "streets": out.layers.streets.len(),
-            "junctions": g.junctions.len(),
-            "segments": g.segments.len(),
-            "corners": g.corners.len(),
-            "side_edges": count(&|k| matches!(k, PedEdgeKind::Side { .. })),
-            "path_edges": count(&|k| matches!(k, PedEdgeKind::Path { .. })),
-            "crossing_edges": count(&|k| matches!(k, PedEdgeKind::Crossing { .. })),
-            "midblock_crossings": count(&|k| matches!(k, PedEdgeKind::Crossing { midblock: true, .. })),
-            "length_km": round2(g.segments.iter().map(|s| s.length_m).sum::<f64>() / 1000.0),
-            "crossing_points": out.layers.crossings.len(),
-        },
-        "qa": {
-            "components": qa.components,
-            "largest_component_share": qa.largest_component_share,
-            "dangling_ends": qa.count(QaKind::DanglingEnd),
-            "near_misses": qa.count(QaKind::NearMiss),
-            "tiny_components": qa.count(QaKind::TinyComponent),
-            "unattached_crossings": qa.count(QaKind::UnattachedCrossing),
-            "unreachable_schools": qa.count(QaKind::UnreachableSchool),
-            "unreachable_homes": qa.count(QaKind::UnreachableHome),
-        },
+    let mut doc = network_summary(&out.layers, g, qa);
+    let extra = json!({
         "warnings": out.warnings.len(),
         "homes": out.layers.homes.len(),
         "children": out.layers.homes.iter().map(|h| h.children).sum::<u32>(),
@@ -107,5 +90,39 @@ pub fn summary_json(out: &AuditOutput) -> Value {
         "rules": { "name": out.config.score.rules.name, "title": out.config.score.rules.title },
         "timings_ms": out.timings,
         "config": out.config,
+    });
+    if let (Some(d), Some(e)) = (doc.as_object_mut(), extra.as_object()) {
+        d.extend(e.clone());
+    }
+    doc
+}
+
+/// Network figures and QA counts (shared by `audit` and `check`).
+pub fn network_summary(layers: &Layers, g: &PedGraph, qa: &Qa) -> Value {
+    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.edges.iter().filter(|e| f(&e.kind)).count();
+    json!({
+        "caution": crate::CAUTION,
+        "network": {
+            "streets": layers.streets.len(),
+            "junctions": g.junctions.len(),
+            "segments": g.segments.len(),
+            "corners": g.corners.len(),
+            "side_edges": count(&|k| matches!(k, PedEdgeKind::Side { .. })),
+            "path_edges": count(&|k| matches!(k, PedEdgeKind::Path { .. })),
+            "crossing_edges": count(&|k| matches!(k, PedEdgeKind::Crossing { .. })),
+            "midblock_crossings": count(&|k| matches!(k, PedEdgeKind::Crossing { midblock: true, .. })),
+            "length_km": round2(g.segments.iter().map(|s| s.length_m).sum::<f64>() / 1000.0),
+            "crossing_points": layers.crossings.len(),
+        },
+        "qa": {
+            "components": qa.components,
+            "largest_component_share": qa.largest_component_share,
+            "dangling_ends": qa.count(QaKind::DanglingEnd),
+            "near_misses": qa.count(QaKind::NearMiss),
+            "tiny_components": qa.count(QaKind::TinyComponent),
+            "unattached_crossings": qa.count(QaKind::UnattachedCrossing),
+            "unreachable_schools": qa.count(QaKind::UnreachableSchool),
+            "unreachable_homes": qa.count(QaKind::UnreachableHome),
+        },
     })
 }

