@@ -267,7 +267,7 @@ fn run(cli: Cli) -> Result<(), String> {
                 }
             };
             println!(
-                "safe-route share: {} before, {} after ({} of {} children routed); wrote {}",
+                "safe-route share: {} before, {} after ({} of {} routed children safe); wrote {}",
                 share(plan.safe_children_before),
                 share(plan.safe_children_after),
                 plan.safe_children_after,

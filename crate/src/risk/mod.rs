@@ -37,6 +37,12 @@ pub struct RiskConfig {
     pub reference_lanes: u32,
     /// Treat sides whose sidewalk the data does not state as having none.
     pub unknown_sidewalk_is_absent: bool,
+    /// A shoulder at least this wide (m) beside a side with no sidewalk...
+    pub shoulder_min_m: f64,
+    /// ...keeps this share of the along-street risk: FHWA Proven Safety Countermeasures,
+    /// walkways: paved shoulders 71 % fewer crashes with pedestrians walking along roadways
+    /// (from memory).
+    pub shoulder_factor: f64,
 }
 
 impl Default for RiskConfig {
@@ -52,6 +58,8 @@ impl Default for RiskConfig {
             reference_speed_kmh: 50.0,
             reference_lanes: 2,
             unknown_sidewalk_is_absent: false,
+            shoulder_min_m: 1.2,
+            shoulder_factor: 0.29,
         }
     }
 }
@@ -120,7 +128,13 @@ pub fn edge_risk_points(
             cfg,
         ),
         PedEdgeKind::Side { sidewalk, .. } if lacks_sidewalk(*sidewalk, cfg) => {
-            along::along_points_per_100m(street.speed_kmh, v15, cfg) * edge.length_m.max(0.0)
+            let shoulder = match street.shoulder_m {
+                Some(w) if w >= cfg.shoulder_min_m => cfg.shoulder_factor.clamp(0.0, 1.0),
+                _ => 1.0,
+            };
+            shoulder
+                * along::along_points_per_100m(street.speed_kmh, v15, cfg)
+                * edge.length_m.max(0.0)
                 / 100.0
         }
         PedEdgeKind::Side { .. } | PedEdgeKind::Path { .. } => 0.0,
@@ -194,9 +208,16 @@ pub(crate) mod tests {
         assert_eq!(edge_risk_points(&g, &g.edges[0], &s, &cfg), 0.0);
         let strict = RiskConfig {
             unknown_sidewalk_is_absent: true,
-            ..cfg
+            ..cfg.clone()
         };
         assert!(edge_risk_points(&g, &g.edges[0], &s, &strict) > 0.0);
+        // A 1.5 m shoulder keeps 29 % of it; a 1 m shoulder none off.
+        let g = one_edge(side(SideWalk::Absent), 250.0);
+        let mut s = s;
+        s[0].shoulder_m = Some(1.5);
+        assert!((edge_risk_points(&g, &g.edges[0], &s, &cfg) - 2.5 * 0.29).abs() < 1e-9);
+        s[0].shoulder_m = Some(1.0);
+        assert!((edge_risk_points(&g, &g.edges[0], &s, &cfg) - 2.5).abs() < 1e-9);
     }
 
     #[test]

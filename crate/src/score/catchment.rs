@@ -95,10 +95,11 @@ pub fn score_catchment(
     members: &[(&HomeScore, f64)],
     cfg: &ScoreConfig,
 ) -> CatchmentScore {
-    let children: f64 = members.iter().map(|m| m.1).sum();
+    let children: f64 = members.iter().map(|m| m.1).sum::<f64>() + 0.0;
     let routed: Vec<&(&HomeScore, f64)> = members.iter().filter(|m| m.0.routed).collect();
     let sum = |f: &dyn Fn(&HomeScore) -> bool| -> f64 {
-        routed.iter().filter(|m| f(m.0)).map(|m| m.1).sum()
+        // `+ 0.0` turns the empty sum's -0.0 into 0.0 for output.
+        routed.iter().filter(|m| f(m.0)).map(|m| m.1).sum::<f64>() + 0.0
     };
     let n = sum(&|_| true);
     let wz = sum(&|h| h.in_walk_zone);
