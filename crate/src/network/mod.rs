@@ -2,6 +2,18 @@
 //!
 //! Built once from the [`Layers`](crate::input::Layers); routing reads it through
 //! [`PedGraph::neighbours`] and the edge list, never through the builder's internals.
+//!
+//! The build, one concern per module, in order ([`build::build_network`]):
+//! - `noding`: junctions at line ends and at shared or repeated vertices (exact coordinates),
+//!   `snap`: near-coincident vertices merge within one vertical layer (grid, no pairs loop);
+//! - `crossings`: crossing points attach to the nearest road segment; near a junction their
+//!   control goes to it (every leg, or the leg the point is on), farther they split the
+//!   segment into a mid-block junction;
+//! - `corners`: legs sorted clockwise by bearing, a corner between consecutive road legs;
+//!   foot-only legs lie inside a corner, so crossing them is free and adds no crossing edge;
+//! - `edges`: side edges (none where the sidewalk is drawn separately), path edges, crossings;
+//! - [`attach`]: the R-tree that attaches homes and schools to the side they are on;
+//! - `components`, `dangling`: network QA ([`qa::Qa`]).
 
 use crate::input::{Control, LonLat, RoadClass, SideWalk};
 use petgraph::graph::{NodeIndex, UnGraph};
@@ -162,7 +174,18 @@ pub struct Attachment {
 
 pub mod attach;
 pub mod build;
+mod components;
+mod corners;
+mod crossings;
+mod dangling;
+mod edges;
+mod noding;
+mod pieces;
 pub mod qa;
+mod snap;
+#[cfg(test)]
+mod test_util;
+mod unionfind;
 
 pub use build::{build_network, Network};
 
@@ -204,11 +227,5 @@ impl PedGraph {
 /// Width walked when crossing a street: its `width_m`, else lanes x the configured lane width;
 /// foot-only ways are free to cross.
 pub fn crossing_width_m(cfg: &crate::config::NetworkConfig, street: &crate::input::Street) -> f64 {
-    if street.class.is_foot_only() {
-        0.0
-    } else {
-        street
-            .width_m
-            .unwrap_or(street.lanes as f64 * cfg.lane_width_m)
-    }
+    edges::crossing_width_m(street, cfg.lane_width_m)
 }
