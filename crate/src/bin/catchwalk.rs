@@ -130,7 +130,12 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
     if let Some(r) = &a.rules {
         config.score.rules = match RuleSet::builtin(r) {
             Some(set) => set,
-            None => RuleSet::from_json(&read(Path::new(r))?).map_err(|e| e.to_string())?,
+            None => {
+                let text = read(Path::new(r)).map_err(|e| {
+                    format!("--rules: {e}; give a shipped rule set (default, pa-447) or a rule-set JSON file")
+                })?;
+                RuleSet::from_json(&text).map_err(|e| e.to_string())?
+            }
         };
     }
     Ok((raw, config))
