@@ -5,7 +5,9 @@
 use catchwalk::config::Config;
 use catchwalk::input::{Layers, RawLayers};
 use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
-use catchwalk::score::plan::{plan_upgrades, recommended_costs, reroute_school, Upgrade};
+use catchwalk::score::plan::{
+    plan_upgrades, recommended_costs, reroute_school, RouteContext, Upgrade,
+};
 
 fn demo_town() -> Layers {
     let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/../sample-maps/demo-town/");
@@ -48,17 +50,15 @@ fn the_planner_reroutes_exactly_as_the_audit_does() {
         let members: Vec<usize> = (0..out.homes.len())
             .filter(|&i| out.homes[i].assignment.school == Some(s))
             .collect();
-        let again = reroute_school(
-            g,
-            &out.layers.streets,
-            &out.config,
-            &cost,
-            &out.school_att[s],
-            &members,
-            &out.homes,
-        );
+        let ctx = RouteContext {
+            graph: g,
+            streets: &out.layers.streets,
+            config: &out.config,
+            cost: &cost,
+        };
+        let again = reroute_school(&ctx, &out.school_att[s], &members, &out.homes, None);
         assert_eq!(again.len(), members.len());
-        for (i, h) in again {
+        for (i, h, _) in again {
             assert_eq!(h.recommended, out.homes[i].recommended, "home {i}");
             assert_eq!(h.over_detour_cap, out.homes[i].over_detour_cap, "home {i}");
         }

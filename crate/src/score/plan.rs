@@ -220,18 +220,36 @@ fn audited(
     }
 }
 
+/// The network a re-routing runs on: graph, streets, config and recommended-route costs.
+#[derive(Clone, Copy)]
+pub struct RouteContext<'a> {
+    pub graph: &'a PedGraph,
+    pub streets: &'a [Street],
+    pub config: &'a Config,
+    pub cost: &'a [f64],
+}
+
 /// Re-routes the recommended routes of one school's `members` on a (modified) graph, as the
 /// audit does: one tree, shared snap points, the detour cap against the shortest route.
 /// The shortest routes keep their paths; their audits are redone on the graph.
+///
+/// With `changed` (the edges an upgrade changed), a route that avoids them and comes out the
+/// same as before keeps its old audit; each result says whether the home is unchanged
+/// (`true`). `None` redoes every audit.
 pub fn reroute_school(
-    graph: &PedGraph,
-    streets: &[Street],
-    config: &Config,
-    cost: &[f64],
+    ctx: &RouteContext,
     entrances: &[Attachment],
     members: &[usize],
     homes: &[HomeResult],
-) -> Vec<(usize, HomeResult)> {
+    changed: Option<&BTreeSet<u32>>,
+) -> Vec<(usize, HomeResult, bool)> {
+    let RouteContext {
+        graph,
+        streets,
+        config,
+        cost,
+    } = *ctx;
+    let touches = |r: &Route| changed.is_none_or(|c| r.steps.iter().any(|s| c.contains(&s.edge)));
     let mut out = Vec::with_capacity(members.len());
     let mut tree = Tree::for_graph(graph);
     let mut targets = Vec::new();
@@ -258,16 +276,34 @@ pub fn reroute_school(
         let Some(h) = homes.get(i) else { continue };
         let mut nh = h.clone();
         nh.over_detour_cap = false;
-        nh.shortest = h
-            .shortest
-            .as_ref()
-            .map(|s| audited(graph, streets, config, RouteKind::Shortest, s.route.clone()));
+        let mut same = true;
+        nh.shortest = h.shortest.as_ref().map(|s| {
+            if touches(&s.route) {
+                same = false;
+                audited(graph, streets, config, RouteKind::Shortest, s.route.clone())
+            } else {
+                s.clone()
+            }
+        });
         nh.recommended = match (h.attachment, entrances.is_empty()) {
             (Some(att), false) => shared
                 .entry((att.edge, att.offset_m.to_bits()))
                 .or_insert_with(|| route_to_school(graph, &tree, cost, &att, entrances))
                 .clone()
-                .map(|r| audited(graph, streets, config, RouteKind::Recommended, r)),
+                .map(|r| match &h.recommended {
+                    Some(old)
+                        if !h.over_detour_cap && old.route.steps == r.steps && !touches(&r) =>
+                    {
+                        AuditedRoute {
+                            route: r,
+                            ..old.clone()
+                        }
+                    }
+                    _ => {
+                        same = false;
+                        audited(graph, streets, config, RouteKind::Recommended, r)
+                    }
+                }),
             _ => None,
         };
         if let (Some(sh), Some(rec)) = (&nh.shortest, &nh.recommended) {
@@ -276,9 +312,11 @@ pub fn reroute_school(
                 standin.kind = RouteKind::Recommended;
                 nh.recommended = Some(standin);
                 nh.over_detour_cap = true;
+                same = false;
             }
         }
-        out.push((i, nh));
+        same &= nh.recommended.is_some() == h.recommended.is_some();
+        out.push((i, nh, same));
     }
     out
 }
@@ -293,6 +331,8 @@ struct State<'a> {
     homes: Vec<HomeResult>,
     scores: Vec<HomeScore>,
     members: Vec<Vec<usize>>,
+    /// Recommended-route edge costs of the current graph.
+    cost: Vec<f64>,
 }
 
 impl State<'_> {
@@ -314,7 +354,7 @@ impl State<'_> {
     /// Schools whose current routes use any of `edges`.
     fn touched(&self, edges: &BTreeSet<u32>) -> Vec<usize> {
         let mut out = BTreeSet::new();
-        for (i, h) in self.homes.iter().enumerate() {
+        for h in &self.homes {
             let Some(s) = h.assignment.school else {
                 continue;
             };
@@ -325,7 +365,6 @@ impl State<'_> {
             if uses {
                 out.insert(s);
             }
-            let _ = i;
         }
         out.into_iter().collect()
     }
@@ -356,9 +395,24 @@ impl State<'_> {
         }
     }
     /// Re-routes `schools` on the current graph: new home results and scores.
-    fn evaluate(&self, schools: &[usize]) -> Evaluation {
+    /// Edge costs after a change to `changed` edges (the rest are unchanged).
+    fn costs_with(&self, changed: &BTreeSet<u32>) -> Vec<f64> {
         let cfg = &self.out.config;
-        let cost = recommended_costs(&self.graph, &self.streets, cfg);
+        let mut cost = self.cost.clone();
+        for &k in changed {
+            if let (Some(c), Some(e)) = (cost.get_mut(k as usize), self.graph.edges.get(k as usize))
+            {
+                *c = e.length_m
+                    + cfg.route.metres_per_risk_point
+                        * edge_risk_points(&self.graph, e, &self.streets, &cfg.risk);
+            }
+        }
+        cost
+    }
+    /// Re-routes `schools` on the current graph with edge costs `cost` after `changed`
+    /// edges changed: new home results and scores (unchanged homes keep their scores).
+    fn evaluate(&self, schools: &[usize], cost: &[f64], changed: &BTreeSet<u32>) -> Evaluation {
+        let cfg = &self.out.config;
         let mut out = Vec::new();
         for &s in schools {
             let entrances = self
@@ -368,23 +422,25 @@ impl State<'_> {
                 .map(|v| v.as_slice())
                 .unwrap_or(&[]);
             let members = self.members.get(s).map(|v| v.as_slice()).unwrap_or(&[]);
-            for (i, nh) in reroute_school(
-                &self.graph,
-                &self.streets,
-                cfg,
-                &cost,
-                entrances,
-                members,
-                &self.homes,
-            ) {
-                let sc = score_home(
-                    nh.shortest.as_ref(),
-                    nh.recommended.as_ref(),
-                    self.students(s),
-                    &self.graph,
-                    &self.streets,
-                    cfg,
-                );
+            let ctx = RouteContext {
+                graph: &self.graph,
+                streets: &self.streets,
+                config: cfg,
+                cost,
+            };
+            let routed = reroute_school(&ctx, entrances, members, &self.homes, Some(changed));
+            for (i, nh, same) in routed {
+                let sc = match self.scores.get(i) {
+                    Some(old) if same => old.clone(),
+                    _ => score_home(
+                        nh.shortest.as_ref(),
+                        nh.recommended.as_ref(),
+                        self.students(s),
+                        &self.graph,
+                        &self.streets,
+                        cfg,
+                    ),
+                };
                 out.push((i, nh, sc));
             }
         }
@@ -512,13 +568,15 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
         homes: out.homes.clone(),
         scores: scores.to_vec(),
         members,
+        cost: recommended_costs(&out.network.graph, &out.layers.streets, &out.config),
     };
     let before = shares(&st, &st.scores);
     let mut steps = Vec::new();
     for rank in 1..=budget {
         let mut best: Option<(f64, f64, Upgrade, u32, Evaluation)> = None;
         for (up, edge) in candidates(&st, cfg) {
-            let schools = st.touched(&st.changed_edges(up, edge));
+            let changed = st.changed_edges(up, edge);
+            let schools = st.touched(&changed);
             if schools.is_empty() {
                 continue;
             }
@@ -526,7 +584,8 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
             if undo.is_empty() {
                 continue;
             }
-            let eval = st.evaluate(&schools);
+            let cost = st.costs_with(&changed);
+            let eval = st.evaluate(&schools, &cost, &changed);
             revert(undo, &mut st.graph, &mut st.streets);
             let mut gained = 0.0;
             let mut cut = 0.0;
@@ -548,6 +607,7 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
             break;
         };
         let _ = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
+        st.cost = st.costs_with(&st.changed_edges(up, edge));
         for (i, nh, sc) in eval {
             if let (Some(h), Some(s)) = (st.homes.get_mut(i), st.scores.get_mut(i)) {
                 *h = nh;
