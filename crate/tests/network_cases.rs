@@ -9,7 +9,7 @@ use catchwalk::input::{
     Street,
 };
 use catchwalk::network::qa::QaKind;
-use catchwalk::network::{build_network, Network, PedEdgeKind, Side};
+use catchwalk::network::{build_network, Network, PedEdgeKind, PedGraph, Side};
 use catchwalk::route::path::{entrance_sources, route_to_school};
 use catchwalk::route::tree::Tree;
 
@@ -65,7 +65,18 @@ fn net(l: &Layers) -> Network {
 /// Shortest walked route from a home to a school (both in metres from the origin).
 fn walk(n: &Network, l: &Layers, home: (f64, f64), school: (f64, f64)) -> Option<RouteAudit> {
     let g = &n.graph;
-    let cost: Vec<f64> = g.edges.iter().map(|e| e.length_m).collect();
+    // Doorstep crossings closed: these cases test the corners and crossings at junctions.
+    let cost: Vec<f64> = g
+        .edges
+        .iter()
+        .map(|e| {
+            if PedGraph::is_doorstep(e) {
+                f64::INFINITY
+            } else {
+                e.length_m
+            }
+        })
+        .collect();
     let s = n.index.attach(g, m(school.0, school.1), 50.0)?;
     let h = n.index.attach(g, m(home.0, home.1), 50.0)?;
     let mut tree = Tree::for_graph(g);
@@ -210,7 +221,7 @@ fn midblock_crossing_point_splits_the_segment_and_its_control_is_on_the_route() 
         400.0,
         0.01
     ));
-    let crossings: Vec<_> = n.graph.edges.iter().filter(|e| e.is_crossing()).collect();
+    let crossings: Vec<_> = n.graph.corner_edges().filter(|e| e.is_crossing()).collect();
     assert_eq!(
         crossings.len(),
         1,
@@ -516,7 +527,7 @@ fn awkward_inputs_do_not_panic() {
     ]);
     let n = net(&l);
     assert!(n.graph.segments.len() >= 4);
-    for e in &n.graph.edges {
+    for e in n.graph.corner_edges() {
         assert!((e.a as usize) < n.graph.corners.len() && (e.b as usize) < n.graph.corners.len());
         assert!(e.length_m.is_finite());
     }
@@ -536,7 +547,7 @@ fn every_side_edge_meets_corners_at_its_own_segment_ends() {
     let l = four_way();
     let n = net(&l);
     let g = &n.graph;
-    for e in &g.edges {
+    for e in g.corner_edges() {
         if let PedEdgeKind::Side { segment, .. } = e.kind {
             let s = &g.segments[segment as usize];
             assert_eq!(g.corners[e.a as usize].junction, s.from);
@@ -544,8 +555,8 @@ fn every_side_edge_meets_corners_at_its_own_segment_ends() {
         }
     }
     // Each road segment has two sides; each of the four legs at the centre one crossing.
-    assert_eq!(g.edges.iter().filter(|e| !e.is_crossing()).count(), 8);
-    assert_eq!(g.edges.iter().filter(|e| e.is_crossing()).count(), 4);
+    assert_eq!(g.corner_edges().filter(|e| !e.is_crossing()).count(), 8);
+    assert_eq!(g.corner_edges().filter(|e| e.is_crossing()).count(), 4);
 }
 
 #[test]
@@ -565,8 +576,7 @@ fn a_point_on_the_junction_node_controls_every_road_leg() {
     let n = net(&l);
     let devices: Vec<Device> = n
         .graph
-        .edges
-        .iter()
+        .corner_edges()
         .filter_map(|e| match &e.kind {
             PedEdgeKind::Crossing { control, .. } => Some(control.device),
             _ => None,
@@ -682,7 +692,7 @@ mod random {
             let n = build_network(&l, &cfg);
             let g = &n.graph;
             prop_assert_eq!(n.midblock.len(), g.junctions.len());
-            for e in &g.edges {
+            for e in g.corner_edges() {
                 prop_assert!((e.a as usize) < g.corners.len() && (e.b as usize) < g.corners.len());
                 prop_assert!(e.length_m.is_finite() && e.length_m >= 0.0);
                 let seg = &g.segments[e.segment() as usize];

@@ -2,7 +2,7 @@
 
 use crate::geodesy::distance_m;
 use crate::input::LonLat;
-use crate::network::{PedEdgeKind, PedGraph};
+use crate::network::{PedEdgeKind, PedGraph, NO_CORNER};
 use crate::route::RouteStep;
 
 /// The sub-polyline of `line` between fractions `f0` and `f1` of its length (in that order;
@@ -51,6 +51,11 @@ pub fn slice_line(line: &[LonLat], f0: f64, f1: f64) -> Vec<LonLat> {
 pub fn step_line(graph: &PedGraph, step: &RouteStep) -> Vec<LonLat> {
     let edge = &graph.edges[step.edge as usize];
     match edge.kind {
+        PedEdgeKind::Crossing { .. } if edge.a == NO_CORNER => {
+            // A doorstep crossing: the point on the centreline where it crosses.
+            let line = &graph.segments[edge.segment() as usize].line;
+            slice_line(line, step.from_frac, step.from_frac)
+        }
         PedEdgeKind::Crossing { .. } => {
             let (a, b) = (
                 graph.corners[edge.a as usize].at,

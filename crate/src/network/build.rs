@@ -6,6 +6,7 @@ use super::components::component_qa;
 use super::corners::build_corners;
 use super::crossings::place_crossings;
 use super::dangling::end_qa;
+use super::doorstep::add_doorstep_crossings;
 use super::edges::{build_edges, EdgeInput};
 use super::noding::node_streets;
 use super::{qa::Qa, PedGraph};
@@ -88,8 +89,11 @@ pub fn build_network(layers: &Layers, cfg: &NetworkConfig) -> Network {
         corners: corners.corners,
         edges,
         topology: Default::default(),
+        sides: Vec::new(),
+        doorstep: Vec::new(),
     };
     graph.index_topology();
+    add_doorstep_crossings(&mut graph, streets, finite_or(cfg.lane_width_m, 0.0));
     let index = SideIndex::new(&graph);
     end_qa(
         &graph.junctions,

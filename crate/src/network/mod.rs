@@ -121,7 +121,14 @@ pub struct PedGraph {
     pub edges: Vec<PedEdge>,
     #[serde(skip)]
     pub topology: UnGraph<(), u32, u32>,
+    /// Per segment: its left and right side edges (`NO_CORNER` where a side has none).
+    pub sides: Vec<[u32; 2]>,
+    /// Per segment: its doorstep crossing edge (`NO_CORNER` if none); see `doorstep.rs`.
+    pub doorstep: Vec<u32>,
 }
+
+/// Marks "no corner" (and "no edge" in `PedGraph::sides`/`doorstep`).
+pub const NO_CORNER: u32 = u32::MAX;
 
 impl PedGraph {
     /// Incident edges of a corner as `(edge index, corner at the other end)`.
@@ -135,6 +142,14 @@ impl PedGraph {
             };
             (*er.weight(), other.index() as u32)
         })
+    }
+    /// True for a doorstep crossing (used only at a route's ends, outside the topology).
+    pub fn is_doorstep(edge: &PedEdge) -> bool {
+        edge.a == NO_CORNER || edge.b == NO_CORNER
+    }
+    /// The edges between corners: every edge but the doorstep crossings.
+    pub fn corner_edges(&self) -> impl Iterator<Item = &PedEdge> + '_ {
+        self.edges.iter().filter(|e| !Self::is_doorstep(e))
     }
     pub fn corner_count(&self) -> usize {
         self.corners.len()
@@ -150,6 +165,9 @@ impl PedGraph {
             g.add_node(());
         }
         for (i, e) in self.edges.iter().enumerate() {
+            if Self::is_doorstep(e) {
+                continue; // doorstep crossings are used only at a route's ends
+            }
             g.add_edge(
                 NodeIndex::new(e.a as usize),
                 NodeIndex::new(e.b as usize),
@@ -178,6 +196,7 @@ mod components;
 mod corners;
 mod crossings;
 mod dangling;
+mod doorstep;
 mod edges;
 mod noding;
 mod pieces;

@@ -1,7 +1,7 @@
 //! Reading one home's route out of a school's tree.
 
 use super::tree::{Source, Tree, NONE};
-use crate::network::{Attachment, PedGraph};
+use crate::network::{Attachment, PedGraph, NO_CORNER};
 use serde::Serialize;
 
 /// One piece of a route: edge `edge` walked from fraction `from_frac` to `to_frac` of its
@@ -39,36 +39,95 @@ fn frac(graph: &PedGraph, att: &Attachment) -> f64 {
     }
 }
 
-/// The sources of a school's tree: each entrance reaches both ends of its edge.
+/// Where a route may start or end for one attachment: on its own edge, or, after a doorstep
+/// crossing of its street, on the other side's edge at the same place.
+#[derive(Debug, Clone, Copy)]
+struct EndOption {
+    edge: u32,
+    /// Cost spent before walking along `edge` (the doorstep crossing, or nothing).
+    extra: f64,
+    doorstep: Option<u32>,
+}
+
+fn end_options(graph: &PedGraph, edge_cost: &[f64], att: &Attachment) -> [Option<EndOption>; 2] {
+    let own = Some(EndOption {
+        edge: att.edge,
+        extra: 0.0,
+        doorstep: None,
+    });
+    let seg = graph.edges[att.edge as usize].segment() as usize;
+    let (Some(pair), Some(&door)) = (graph.sides.get(seg), graph.doorstep.get(seg)) else {
+        return [own, None];
+    };
+    if door == NO_CORNER {
+        return [own, None];
+    }
+    let twin = if pair[0] == att.edge {
+        pair[1]
+    } else {
+        pair[0]
+    };
+    let extra = edge_cost[door as usize];
+    if twin == NO_CORNER || twin == att.edge || !extra.is_finite() {
+        return [own, None];
+    }
+    [
+        own,
+        Some(EndOption {
+            edge: twin,
+            extra,
+            doorstep: Some(door),
+        }),
+    ]
+}
+
+/// A candidate start: cost, the home's option, the corner reached with the fraction at which
+/// the home's edge is left (or `None` for a walk straight along one edge), and the entrance
+/// option for such a straight walk.
+type Start = (
+    f64,
+    EndOption,
+    Option<(u32, f64)>,
+    Option<(usize, EndOption)>,
+);
+
+/// The sources of a school's tree: each entrance reaches both ends of its edge, and both ends
+/// of the other side's edge after a doorstep crossing. The origin tag is `entrance * 2 + j`,
+/// `j = 1` for the doorstep option.
 pub fn entrance_sources(
     graph: &PedGraph,
     edge_cost: &[f64],
     entrances: &[Attachment],
 ) -> Vec<Source> {
-    let mut out = Vec::with_capacity(entrances.len() * 2);
+    let mut out = Vec::with_capacity(entrances.len() * 4);
     for (k, att) in entrances.iter().enumerate() {
-        let e = &graph.edges[att.edge as usize];
-        let w = edge_cost[att.edge as usize];
-        if !w.is_finite() {
-            continue;
-        }
         let s = frac(graph, att);
-        out.push(Source {
-            corner: e.a,
-            cost: w * s,
-            origin: k as u32,
-        });
-        out.push(Source {
-            corner: e.b,
-            cost: w * (1.0 - s),
-            origin: k as u32,
-        });
+        for (j, opt) in end_options(graph, edge_cost, att).iter().enumerate() {
+            let Some(opt) = opt else { continue };
+            let e = &graph.edges[opt.edge as usize];
+            let w = edge_cost[opt.edge as usize];
+            if !w.is_finite() {
+                continue;
+            }
+            let origin = (k * 2 + j) as u32;
+            out.push(Source {
+                corner: e.a,
+                cost: opt.extra + w * s,
+                origin,
+            });
+            out.push(Source {
+                corner: e.b,
+                cost: opt.extra + w * (1.0 - s),
+                origin,
+            });
+        }
     }
     out
 }
 
 /// The cheapest route from `home` to any of `entrances` in a tree grown from
 /// [`entrance_sources`] with the same `edge_cost`. `None` when the tree does not reach it.
+/// The entrance index of the result is the position in `entrances`.
 pub fn route_to_school(
     graph: &PedGraph,
     tree: &Tree,
@@ -76,80 +135,115 @@ pub fn route_to_school(
     home: &Attachment,
     entrances: &[Attachment],
 ) -> Option<Route> {
-    let e = &graph.edges[home.edge as usize];
-    let w = edge_cost[home.edge as usize];
-    if !w.is_finite() {
-        return None;
-    }
     let u = frac(graph, home);
-    let via_a = tree.cost[e.a as usize] + w * u;
-    let via_b = tree.cost[e.b as usize] + w * (1.0 - u);
-    // A home on the same edge as an entrance may walk straight to it.
-    let direct = entrances
-        .iter()
-        .enumerate()
-        .filter(|(_, s)| s.edge == home.edge)
-        .map(|(k, s)| (w * (frac(graph, s) - u).abs(), k, frac(graph, s)))
-        .min_by(|x, y| x.0.total_cmp(&y.0));
-    let best_via = via_a.min(via_b);
-    if let Some((cost, k, s)) = direct {
-        if cost <= best_via {
-            return Some(Route {
-                steps: vec![RouteStep {
-                    edge: home.edge,
-                    from_frac: u,
-                    to_frac: s,
-                }],
-                cost,
-                entrance: k as u32,
-            });
+    let mut best: Option<Start> = None;
+    let mut consider = |cand: Start| {
+        if cand.0.is_finite() && best.as_ref().is_none_or(|b| cand.0 < b.0) {
+            best = Some(cand);
+        }
+    };
+    let home_opts = end_options(graph, edge_cost, home);
+    for opt in home_opts.iter().flatten() {
+        let e = &graph.edges[opt.edge as usize];
+        let w = edge_cost[opt.edge as usize];
+        if !w.is_finite() {
+            continue;
+        }
+        consider((
+            opt.extra + tree.cost[e.a as usize] + w * u,
+            *opt,
+            Some((e.a, 0.0)),
+            None,
+        ));
+        consider((
+            opt.extra + tree.cost[e.b as usize] + w * (1.0 - u),
+            *opt,
+            Some((e.b, 1.0)),
+            None,
+        ));
+        // Straight along the same edge to an entrance on it.
+        for (k, ent) in entrances.iter().enumerate() {
+            for eopt in end_options(graph, edge_cost, ent).iter().flatten() {
+                if eopt.edge == opt.edge {
+                    let d = w * (frac(graph, ent) - u).abs();
+                    consider((opt.extra + eopt.extra + d, *opt, None, Some((k, *eopt))));
+                }
+            }
         }
     }
-    if !best_via.is_finite() {
-        return None;
-    }
-    let (corner, end_frac) = if via_a <= via_b {
-        (e.a, 0.0)
-    } else {
-        (e.b, 1.0)
-    };
-    let mut steps = vec![RouteStep {
-        edge: home.edge,
-        from_frac: u,
-        to_frac: end_frac,
-    }];
-    let mut c = corner;
-    for edge in tree.path_to_source(graph, corner) {
-        let ed = &graph.edges[edge as usize];
-        let (from_frac, to_frac, next) = if ed.a == c {
-            (0.0, 1.0, ed.b)
-        } else {
-            (1.0, 0.0, ed.a)
-        };
+    let (cost, start, via, direct) = best?;
+    let mut steps = Vec::new();
+    if let Some(door) = start.doorstep {
         steps.push(RouteStep {
-            edge,
-            from_frac,
-            to_frac,
+            edge: door,
+            from_frac: u,
+            to_frac: u,
         });
-        c = next;
     }
-    let k = tree.origin[c as usize];
-    if k == NONE {
-        return None;
+    let (k, eopt, c) = match (via, direct) {
+        (None, Some((k, eopt))) => {
+            steps.push(RouteStep {
+                edge: start.edge,
+                from_frac: u,
+                to_frac: frac(graph, &entrances[k]),
+            });
+            (k, eopt, None)
+        }
+        (Some((corner, end_frac)), _) => {
+            steps.push(RouteStep {
+                edge: start.edge,
+                from_frac: u,
+                to_frac: end_frac,
+            });
+            let mut c = corner;
+            for edge in tree.path_to_source(graph, corner) {
+                let ed = &graph.edges[edge as usize];
+                let (from_frac, to_frac, next) = if ed.a == c {
+                    (0.0, 1.0, ed.b)
+                } else {
+                    (1.0, 0.0, ed.a)
+                };
+                steps.push(RouteStep {
+                    edge,
+                    from_frac,
+                    to_frac,
+                });
+                c = next;
+            }
+            let origin = tree.origin[c as usize];
+            if origin == NONE {
+                return None;
+            }
+            let k = (origin / 2) as usize;
+            let ent = entrances.get(k)?;
+            let eopt = end_options(graph, edge_cost, ent)[(origin % 2) as usize]?;
+            (k, eopt, Some(c))
+        }
+        (None, None) => return None,
+    };
+    let ent = &entrances[k];
+    let s = frac(graph, ent);
+    if let Some(c) = c {
+        let ee = &graph.edges[eopt.edge as usize];
+        let start_frac = if ee.a == c { 0.0 } else { 1.0 };
+        steps.push(RouteStep {
+            edge: eopt.edge,
+            from_frac: start_frac,
+            to_frac: s,
+        });
     }
-    let ent = &entrances[k as usize];
-    let ee = &graph.edges[ent.edge as usize];
-    let start = if ee.a == c { 0.0 } else { 1.0 };
-    steps.push(RouteStep {
-        edge: ent.edge,
-        from_frac: start,
-        to_frac: frac(graph, ent),
-    });
+    if let Some(door) = eopt.doorstep {
+        steps.push(RouteStep {
+            edge: door,
+            from_frac: s,
+            to_frac: s,
+        });
+    }
     steps.retain(|s| s.from_frac != s.to_frac || graph.edges[s.edge as usize].is_crossing());
     Some(Route {
         steps,
-        cost: best_via,
-        entrance: k,
+        cost,
+        entrance: k as u32,
     })
 }
 
