@@ -84,6 +84,10 @@ pub fn summary_json(out: &AuditOutput) -> Value {
         "children": out.layers.homes.iter().map(|h| h.children).sum::<u32>(),
         "walk_zone_m": walk_zone,
         "schools": schools,
+        "catchments": super::catchments_csv::catchments_json(out),
+        "children_on_hazardous_routes": out.scores.catchments.iter().map(|c| c.children_hazardous).sum::<f64>(),
+        "top_hotspots": out.scores.hotspots.iter().take(10).collect::<Vec<_>>(),
+        "rules": { "name": out.config.score.rules.name, "title": out.config.score.rules.title },
         "timings_ms": out.timings,
         "config": out.config,
     });
