@@ -18,7 +18,7 @@ pub struct NetworkConfig {
     pub max_attach_m: f64,
     /// Components with fewer segments than this are reported as tiny in network QA.
     pub tiny_component_segments: usize,
-    /// Two dangling ends in the same layer closer than this (but not merged) are near-misses.
+    /// A dangling end this close to a same-layer street it did not join is a near-miss.
     pub near_miss_m: f64,
 }
 
@@ -64,6 +64,14 @@ pub struct BenefitConfig {
     pub walking_speed_mps: f64,
     /// Network distance that defines the walk zone (common practice: about one mile).
     pub walk_zone_m: f64,
+    /// Minutes a day of moderate-to-vigorous activity for ages 5-17 (WHO 2020 guidelines on
+    /// physical activity and sedentary behaviour).
+    pub guideline_min_per_day: f64,
+    /// MET of walking at about 2.5 mph on a level, firm surface: 3.0 (Compendium of Physical
+    /// Activities 2011, code 17170; from memory).
+    pub walking_met: f64,
+    /// Body mass for energy figures (about a 10-year-old's; our assumption).
+    pub body_mass_kg: f64,
 }
 
 impl Default for BenefitConfig {
@@ -71,6 +79,9 @@ impl Default for BenefitConfig {
         BenefitConfig {
             walking_speed_mps: 1.07,
             walk_zone_m: 1600.0,
+            guideline_min_per_day: 60.0,
+            walking_met: 3.0,
+            body_mass_kg: 32.0,
         }
     }
 }
@@ -83,6 +94,7 @@ pub struct Config {
     pub route: RouteConfig,
     pub benefit: BenefitConfig,
     pub risk: crate::risk::RiskConfig,
+    pub score: crate::score::ScoreConfig,
 }
 
 impl Config {

@@ -97,6 +97,8 @@ pub struct AuditOutput {
     /// Attachments of each school's entrances (empty when none reaches the network).
     pub school_att: Vec<Vec<Attachment>>,
     pub homes: Vec<HomeResult>,
+    /// Per-home, per-catchment and hotspot scores (the scoring stage).
+    pub scores: crate::score::Scores,
     pub timings: Timings,
 }
 
@@ -277,6 +279,11 @@ pub fn audit_layers(
             });
         }
     }
+    if !progress.report(Stage::Scoring, 0, 1) {
+        return Err(Error::Cancelled);
+    }
+    let scores = crate::score::score_audit(&layers, &network.graph, &homes, config);
+    progress.report(Stage::Scoring, 1, 1);
     let t2 = progress.now_ms();
     Ok(AuditOutput {
         config: config.clone(),
@@ -285,6 +292,7 @@ pub fn audit_layers(
         network,
         school_att,
         homes,
+        scores,
         timings: Timings {
             parse_ms: 0.0,
             network_ms: t1 - t0,

@@ -4,7 +4,9 @@
 use catchwalk::config::Config;
 use catchwalk::export;
 use catchwalk::input::{HomesFormat, Preset, RawLayers};
-use catchwalk::pipeline::{check_layers, run_audit, Progress, Stage};
+use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
+use catchwalk::score::plan::plan_upgrades;
+use catchwalk::score::rules::RuleSet;
 use clap::{Args, Parser, Subcommand, ValueEnum};
 use indicatif::{ProgressBar, ProgressStyle};
 use std::io::IsTerminal;
@@ -31,6 +33,18 @@ enum Command {
     Audit {
         #[command(flatten)]
         layers: LayerArgs,
+        /// Folder for the outputs (created if missing).
+        #[arg(long, value_name = "DIR")]
+        out: PathBuf,
+    },
+    /// Choose up to --budget upgrades (signal, guard, refuge, speed reduction, sidewalk) that
+    /// give the most children a safe route; writes plan.json and plan.csv to --out.
+    Plan {
+        #[command(flatten)]
+        layers: LayerArgs,
+        /// How many upgrades to choose.
+        #[arg(long, value_name = "N")]
+        budget: usize,
         /// Folder for the outputs (created if missing).
         #[arg(long, value_name = "DIR")]
         out: PathBuf,
@@ -78,6 +92,9 @@ struct LayerArgs {
     /// A config file (JSON) overriding defaults (walk zone, walking speed, detour cap, ...).
     #[arg(long, value_name = "FILE")]
     config: Option<PathBuf>,
+    /// Safe-route rule set: a shipped name (default, pa-447) or a rule-set JSON file.
+    #[arg(long, value_name = "NAME|FILE")]
+    rules: Option<String>,
 }
 
 fn read(path: &Path) -> Result<String, String> {
@@ -106,10 +123,21 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
         },
         mapping: read_opt(&a.mapping)?,
     };
-    let config = match &a.config {
+    let mut config = match &a.config {
         Some(p) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,
         None => Config::default(),
     };
+    if let Some(r) = &a.rules {
+        config.score.rules = match RuleSet::builtin(r) {
+            Some(set) => set,
+            None => {
+                let text = read(Path::new(r)).map_err(|e| {
+                    format!("--rules: {e}; give a shipped rule set (default, pa-447) or a rule-set JSON file")
+                })?;
+                RuleSet::from_json(&text).map_err(|e| e.to_string())?
+            }
+        };
+    }
     Ok((raw, config))
 }
 
@@ -190,6 +218,14 @@ fn run(cli: Cli) -> Result<(), String> {
                 "centrelines.geojson",
                 &json(&export::centrelines_geojson(&result)),
             )?;
+            write(&out, "catchments.csv", &export::catchments_csv(&result))?;
+            write(&out, "hotspots.csv", &export::hotspots_csv(&result))?;
+            write(
+                &out,
+                "hotspots.geojson",
+                &json(&export::hotspots_geojson(&result)),
+            )?;
+            print_balance(&result);
             for w in &result.warnings {
                 eprintln!("warning: {w}");
             }
@@ -198,6 +234,49 @@ fn run(cli: Cli) -> Result<(), String> {
                 result.homes.len(),
                 result.layers.schools.len(),
                 result.timings.total_ms,
+                out.display()
+            );
+            println!("{}", catchwalk::CAUTION);
+            Ok(())
+        }
+        Command::Plan {
+            layers,
+            budget,
+            out,
+        } => {
+            let (raw, config) = raw_layers(&layers)?;
+            let mut bar = Bar::new();
+            let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
+            bar.bar.finish_and_clear();
+            let plan = plan_upgrades(&result, &result.scores.homes, budget);
+            std::fs::create_dir_all(&out)
+                .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
+            write(&out, "plan.json", &json(&export::plan_json(&result, &plan)))?;
+            write(&out, "plan.csv", &export::plan_csv(&plan))?;
+            println!("rank upgrade          children_gained  street");
+            for s in &plan.steps {
+                println!(
+                    "{:>4} {:<16} {:>15}  {} (edge {})",
+                    s.rank,
+                    s.upgrade.as_str(),
+                    s.children_gained,
+                    s.street,
+                    s.edge
+                );
+            }
+            let share = |x: f64| {
+                if plan.children_routed > 0.0 {
+                    format!("{:.1} %", 100.0 * x / plan.children_routed)
+                } else {
+                    "-".into()
+                }
+            };
+            println!(
+                "safe-route share: {} before, {} after ({} of {} routed children safe); wrote {}",
+                share(plan.safe_children_before),
+                share(plan.safe_children_after),
+                plan.safe_children_after,
+                plan.children_routed,
                 out.display()
             );
             println!("{}", catchwalk::CAUTION);
@@ -226,6 +305,41 @@ fn run(cli: Cli) -> Result<(), String> {
             }
             Ok(())
         }
+    }
+}
+
+/// Prints the per-catchment balance and the top hotspots (formatting only).
+fn print_balance(r: &AuditOutput) {
+    let pct = |x: Option<f64>| {
+        x.map(|v| format!("{:.0}%", 100.0 * v))
+            .unwrap_or("-".into())
+    };
+    let num = |x: Option<f64>| x.map(|v| format!("{v:.2}")).unwrap_or("-".into());
+    println!(
+        "{:<12} {:>8} {:>9} {:>6} {:>5} {:>10} {:>9} {:>8}  quadrant",
+        "school", "children", "walk_zone", "safe", "gap", "risk/trip", "p90_risk", "act_min"
+    );
+    for c in &r.scores.catchments {
+        let id = r.layers.schools.get(c.school).map_or("", |s| s.id.as_str());
+        println!(
+            "{:<12} {:>8} {:>9} {:>6} {:>5} {:>10} {:>9} {:>8}  {}",
+            id,
+            c.children,
+            pct(c.walk_zone_share),
+            pct(c.safe_route_share),
+            pct(c.gap),
+            num(c.mean_risk_per_trip),
+            num(c.p90_risk_per_trip),
+            num(c.mean_active_minutes),
+            c.quadrant.as_str()
+        );
+    }
+    println!("top hotspots (children x risk per trip):");
+    for h in r.scores.hotspots.iter().take(10) {
+        println!(
+            "{:>3}. {:<8} {:<24} {:<16} {:>3.0} km/h {} lanes  children {:>4}  risk {:.2}  product {:.2}",
+            h.rank, h.kind, h.street, h.control, h.speed_kmh, h.lanes, h.children, h.risk, h.product
+        );
     }
 }
 

@@ -63,6 +63,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
     header.extend(ROUTE_COLUMNS.iter().map(|c| format!("shortest_{c}")));
     header.push("shortest_risk".into());
     header.extend(["attach_segment", "attach_side", "attach_offset_m", "snap_m"].map(String::from));
+    header.extend(super::catchments_csv::HOME_SCORE_COLUMNS.map(String::from));
     let _ = w.write_record(&header);
     let speed = out.config.benefit.walking_speed_mps;
     let g = &out.network.graph;
@@ -104,6 +105,9 @@ pub fn homes_csv(out: &AuditOutput) -> String {
             }
             None => row.extend([String::new(), String::new(), String::new(), String::new()]),
         }
+        row.extend(super::catchments_csv::home_score_values(
+            out.scores.homes.get(i),
+        ));
         let _ = w.write_record(&row);
     }
     let bytes = w.into_inner().unwrap_or_default();

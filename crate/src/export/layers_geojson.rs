@@ -55,6 +55,12 @@ fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: boo
     props.insert("no_sidewalk_m".into(), json!(round2(a.no_sidewalk_m)));
     props.insert("risk".into(), json!((r.risk * 1e4).round() / 1e4));
     props.insert("over_detour_cap".into(), json!(over_cap));
+    if let (crate::route::RouteKind::Recommended, Some(sc)) = (r.kind, out.scores.homes.get(home)) {
+        props.insert("safe_route".into(), json!(sc.safe_route));
+        props.insert("unsafe_reason".into(), json!(sc.unsafe_reason));
+        props.insert("hazardous".into(), json!(sc.hazardous));
+        props.insert("hazard_reason".into(), json!(sc.hazard_reason));
+    }
     json!({
         "type": "Feature",
         "geometry": line(&route_line(&out.network.graph, &r.route.steps)),

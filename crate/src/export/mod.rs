@@ -1,12 +1,16 @@
 //! Exports: tables as CSV, layers as GeoJSON, the summary as JSON. Each is a plain function
 //! of the [`AuditOutput`](crate::pipeline::AuditOutput); writing files is the caller's job.
 
+pub mod catchments_csv;
 pub mod geometry;
 pub mod homes_csv;
+pub mod hotspots;
 pub mod layers_geojson;
 pub mod summary;
 
+pub use catchments_csv::{catchments_csv, plan_csv, plan_json};
 pub use homes_csv::homes_csv;
+pub use hotspots::{hotspots_csv, hotspots_geojson};
 pub use layers_geojson::{centrelines_geojson, qa_geojson, routes_geojson};
 pub use summary::{network_summary, summary_json};
 

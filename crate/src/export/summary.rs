@@ -84,6 +84,10 @@ pub fn summary_json(out: &AuditOutput) -> Value {
         "children": out.layers.homes.iter().map(|h| h.children).sum::<u32>(),
         "walk_zone_m": walk_zone,
         "schools": schools,
+        "catchments": super::catchments_csv::catchments_json(out),
+        "children_on_hazardous_routes": out.scores.catchments.iter().map(|c| c.children_hazardous).sum::<f64>(),
+        "top_hotspots": out.scores.hotspots.iter().take(10).collect::<Vec<_>>(),
+        "rules": { "name": out.config.score.rules.name, "title": out.config.score.rules.title },
         "timings_ms": out.timings,
         "config": out.config,
     });
@@ -95,7 +99,7 @@ pub fn summary_json(out: &AuditOutput) -> Value {
 
 /// Network figures and QA counts (shared by `audit` and `check`).
 pub fn network_summary(layers: &Layers, g: &PedGraph, qa: &Qa) -> Value {
-    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.edges.iter().filter(|e| f(&e.kind)).count();
+    let count = |f: &dyn Fn(&PedEdgeKind) -> bool| g.corner_edges().filter(|e| f(&e.kind)).count();
     json!({
         "caution": crate::CAUTION,
         "network": {
@@ -108,6 +112,7 @@ pub fn network_summary(layers: &Layers, g: &PedGraph, qa: &Qa) -> Value {
             "crossing_edges": count(&|k| matches!(k, PedEdgeKind::Crossing { .. })),
             "midblock_crossings": count(&|k| matches!(k, PedEdgeKind::Crossing { midblock: true, .. })),
             "length_km": round2(g.segments.iter().map(|s| s.length_m).sum::<f64>() / 1000.0),
+            "doorstep_crossings": g.edges.iter().filter(|e| PedGraph::is_doorstep(e)).count(),
             "crossing_points": layers.crossings.len(),
         },
         "qa": {

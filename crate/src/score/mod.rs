@@ -1,1 +1,79 @@
 //! Scores: per home, per catchment, hotspots, upgrade planner.
+
+pub mod rules;
+
+use serde::{Deserialize, Serialize};
+
+/// Scoring settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct ScoreConfig {
+    /// The safe-route / hazardous-route rule set (default: the shipped `default` set).
+    pub rules: rules::RuleSet,
+    /// A catchment is "walkable" when at least this share of its children lives in the walk
+    /// zone (common practice: a majority).
+    pub walkable_share: f64,
+    /// A catchment is "safe" when at least this share of its children has a route that no
+    /// rule flags (common practice: a majority).
+    pub safe_share: f64,
+    pub plan: plan::PlanConfig,
+}
+
+impl Default for ScoreConfig {
+    fn default() -> Self {
+        ScoreConfig {
+            rules: rules::RuleSet::default(),
+            walkable_share: 0.5,
+            safe_share: 0.5,
+            plan: plan::PlanConfig::default(),
+        }
+    }
+}
+
+pub mod catchment;
+pub mod home;
+pub mod hotspots;
+pub mod plan;
+
+use crate::config::Config;
+use crate::input::Layers;
+use crate::network::PedGraph;
+use crate::pipeline::HomeResult;
+
+/// Everything the scoring stage produces.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct Scores {
+    /// Indexed like the homes layer.
+    pub homes: Vec<home::HomeScore>,
+    /// Indexed like the schools layer.
+    pub catchments: Vec<catchment::CatchmentScore>,
+    /// Ranked, worst first.
+    pub hotspots: Vec<hotspots::Hotspot>,
+}
+
+/// Scores an audit's routes: homes, catchments, hotspots.
+pub fn score_audit(
+    layers: &Layers,
+    graph: &PedGraph,
+    homes: &[HomeResult],
+    config: &Config,
+) -> Scores {
+    let home_scores = home::score_homes(homes, &layers.schools, graph, &layers.streets, config);
+    let catchments = (0..layers.schools.len())
+        .map(|s| {
+            let members: Vec<(&home::HomeScore, f64)> = homes
+                .iter()
+                .zip(&home_scores)
+                .zip(&layers.homes)
+                .filter(|((h, _), _)| h.assignment.school == Some(s))
+                .map(|((_, sc), lh)| (sc, lh.children as f64))
+                .collect();
+            catchment::score_catchment(s, &members, &config.score)
+        })
+        .collect();
+    Scores {
+        hotspots: hotspots::hotspots(homes, &layers.homes, graph, &layers.streets, config),
+        homes: home_scores,
+        catchments,
+    }
+}

@@ -1,0 +1,280 @@
+//! Per-home scores: risk, benefit, walk zone, safe route and hazard, with the reason.
+
+use super::rules::{edge_facts, EdgeFacts, RuleSet, Target, Verdict};
+use crate::benefit;
+use crate::config::Config;
+use crate::input::{Street, Students};
+use crate::network::PedGraph;
+use crate::pipeline::{AuditedRoute, HomeResult};
+use crate::risk::crossing_delay::{gap_delay, Los};
+use crate::risk::volume::peak_flow_per_s;
+use crate::risk::{edge_risk_points, street_of};
+use crate::route::Route;
+use serde::Serialize;
+
+/// One rule that fired on a route.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Finding {
+    pub rule: String,
+    pub verdict: Verdict,
+    pub on: Target,
+    pub reason: String,
+    pub source: String,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub site_check: Option<String>,
+    /// The worst matching edge (highest risk; crossings: the crossing itself).
+    pub edge: u32,
+    pub street: String,
+    /// Metres walked along matching sides (stretch rules; 0 for crossings).
+    pub length_m: f64,
+    /// Risk points of that edge.
+    pub edge_risk: f64,
+}
+
+impl Finding {
+    /// One line for a table: `rule: reason (street)`.
+    pub fn line(&self) -> String {
+        let mut s = format!("{}: {} ({})", self.rule, self.reason, self.street);
+        if let Some(c) = &self.site_check {
+            s.push_str("; check on site: ");
+            s.push_str(c);
+        }
+        s
+    }
+}
+
+/// Everything scored for one home.
+#[derive(Debug, Clone, Default, PartialEq, Serialize)]
+pub struct HomeScore {
+    /// The home has both routes.
+    pub routed: bool,
+    /// Risk points of one trip on the recommended route.
+    pub risk: f64,
+    /// Active minutes a day walking the recommended route both ways.
+    pub active_minutes: f64,
+    /// Share of the WHO 60-minute guideline.
+    pub guideline_share: f64,
+    pub energy_kcal: f64,
+    /// Shortest route's network length within the walk zone.
+    pub in_walk_zone: bool,
+    /// No rule fires on the recommended route.
+    pub route_ok: bool,
+    /// In the walk zone and `route_ok`.
+    pub safe_route: bool,
+    pub unsafe_reason: String,
+    pub hazardous: bool,
+    pub hazard_reason: String,
+    /// Longest HCM average wait at an uncontrolled crossing of the route (s) and its LOS.
+    pub longest_wait_s: f64,
+    pub longest_wait_los: Option<Los>,
+    pub findings: Vec<Finding>,
+}
+
+/// A readable name for a street: its name, else `street <id>`.
+pub fn street_label(s: &Street) -> String {
+    match &s.name {
+        Some(n) if !n.is_empty() => n.clone(),
+        _ => format!("street {}", s.id),
+    }
+}
+
+/// The rules that fire on a route, worst first (hazardous before unsafe, then by risk).
+pub fn route_findings(
+    rules: &RuleSet,
+    route: &Route,
+    graph: &PedGraph,
+    streets: &[Street],
+    students: Students,
+    config: &Config,
+) -> Vec<Finding> {
+    let risk_cfg = &config.risk;
+    let mut out: Vec<Finding> = Vec::new();
+    // Per stretch rule: metres matched and the worst edge so far.
+    let mut stretch: Vec<(f64, Option<(u32, f64)>)> = vec![(0.0, None); rules.rules.len()];
+    for step in &route.steps {
+        let Some(edge) = graph.edges.get(step.edge as usize) else {
+            continue;
+        };
+        let Some(facts) = edge_facts(graph, edge, streets, risk_cfg) else {
+            continue;
+        };
+        let risk = edge_risk_points(graph, edge, streets, risk_cfg);
+        for (k, rule) in rules.rules.iter().enumerate() {
+            match &facts {
+                EdgeFacts::Crossing(f)
+                    if rule.fires_on_crossing(f, students)
+                        && !out.iter().any(|x| x.rule == rule.id && x.edge == step.edge) =>
+                {
+                    out.push(finding(rule, step.edge, 0.0, risk, graph, streets));
+                }
+                EdgeFacts::Stretch(f) if rule.matches_stretch(f, students) => {
+                    let m = step.share() * edge.length_m;
+                    if let Some(acc) = stretch.get_mut(k) {
+                        acc.0 += m;
+                        if acc.1.is_none_or(|(_, r)| risk > r) {
+                            acc.1 = Some((step.edge, risk));
+                        }
+                    }
+                }
+                _ => {}
+            }
+        }
+    }
+    for (rule, (len, worst)) in rules.rules.iter().zip(stretch) {
+        if let Some((edge, risk)) = worst {
+            if len > rule.min_length_m.unwrap_or(0.0) {
+                out.push(finding(rule, edge, len, risk, graph, streets));
+            }
+        }
+    }
+    out.sort_by(|a, b| {
+        b.verdict
+            .cmp(&a.verdict)
+            .then(b.edge_risk.total_cmp(&a.edge_risk))
+    });
+    out
+}
+
+fn finding(
+    rule: &super::rules::Rule,
+    edge: u32,
+    length_m: f64,
+    risk: f64,
+    graph: &PedGraph,
+    streets: &[Street],
+) -> Finding {
+    let street = graph
+        .edges
+        .get(edge as usize)
+        .and_then(|e| street_of(graph, e, streets))
+        .map(street_label)
+        .unwrap_or_default();
+    Finding {
+        rule: rule.id.clone(),
+        verdict: rule.verdict,
+        on: rule.on,
+        reason: rule.reason.clone(),
+        source: rule.source.clone(),
+        site_check: rule.site_check.clone(),
+        edge,
+        street,
+        length_m,
+        edge_risk: risk,
+    }
+}
+
+/// Longest HCM gap-acceptance wait (s) among the route's crossings that no signal, stop
+/// sign or guard controls.
+pub fn longest_wait_s(route: &Route, graph: &PedGraph, streets: &[Street], config: &Config) -> f64 {
+    use super::rules::ControlTag as T;
+    let r = &config.risk;
+    route
+        .steps
+        .iter()
+        .filter_map(|s| graph.edges.get(s.edge as usize))
+        .filter_map(|e| match edge_facts(graph, e, streets, r) {
+            Some(EdgeFacts::Crossing(f))
+                if !f
+                    .tags
+                    .iter()
+                    .any(|t| matches!(t, T::Signal | T::Stop | T::AllWayStop | T::Guard)) =>
+            {
+                Some(
+                    gap_delay(
+                        f.width_m,
+                        f.lanes,
+                        peak_flow_per_s(f.vehicles_15min),
+                        r.walk_mps,
+                        r.start_up_s,
+                    )
+                    .average_delay_s,
+                )
+            }
+            _ => None,
+        })
+        .fold(0.0, f64::max)
+}
+
+/// Scores one home from its routes. `shortest_network_m` decides the walk zone.
+pub fn score_home(
+    shortest: Option<&AuditedRoute>,
+    recommended: Option<&AuditedRoute>,
+    students: Students,
+    graph: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+) -> HomeScore {
+    let (Some(sh), Some(rec)) = (shortest, recommended) else {
+        return HomeScore {
+            unsafe_reason: "no route to the school on the walking network".into(),
+            ..HomeScore::default()
+        };
+    };
+    let b = &config.benefit;
+    let active = benefit::active_minutes_per_day(rec.audit.walked_m, b);
+    let in_zone = benefit::in_walk_zone(sh.audit.network_m, b);
+    let findings = route_findings(
+        &config.score.rules,
+        &rec.route,
+        graph,
+        streets,
+        students,
+        config,
+    );
+    let route_ok = findings.is_empty();
+    let unsafe_reason = if !in_zone {
+        format!(
+            "outside the walk zone: {:.0} m > {:.0} m",
+            sh.audit.network_m, b.walk_zone_m
+        )
+    } else {
+        findings.first().map(Finding::line).unwrap_or_default()
+    };
+    let hazard = findings.iter().find(|f| f.verdict == Verdict::Hazardous);
+    let wait = longest_wait_s(&rec.route, graph, streets, config);
+    HomeScore {
+        routed: true,
+        risk: rec.risk,
+        active_minutes: active,
+        guideline_share: benefit::guideline_share(active, b),
+        energy_kcal: benefit::energy_kcal_per_day(active, b),
+        in_walk_zone: in_zone,
+        route_ok,
+        safe_route: in_zone && route_ok,
+        unsafe_reason,
+        hazardous: hazard.is_some(),
+        hazard_reason: hazard.map(Finding::line).unwrap_or_default(),
+        longest_wait_s: wait,
+        longest_wait_los: (wait > 0.0).then(|| Los::of_delay_s(wait)),
+        findings,
+    }
+}
+
+/// Scores every home of an audit.
+pub fn score_homes(
+    homes: &[HomeResult],
+    schools: &[crate::input::School],
+    graph: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+) -> Vec<HomeScore> {
+    homes
+        .iter()
+        .map(|h| {
+            let students = h
+                .assignment
+                .school
+                .and_then(|s| schools.get(s))
+                .map(|s| s.students)
+                .unwrap_or_default();
+            score_home(
+                h.shortest.as_ref(),
+                h.recommended.as_ref(),
+                students,
+                graph,
+                streets,
+                config,
+            )
+        })
+        .collect()
+}

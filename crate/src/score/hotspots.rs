@@ -1,0 +1,152 @@
+//! Hotspots: every crossing and side edge that children are routed through, ranked by the
+//! risk it adds to their trips (children x risk of the part they walk).
+
+use super::home::street_label;
+use super::rules::{edge_facts, EdgeFacts};
+use crate::audit::device_name;
+use crate::config::Config;
+use crate::input::{Control, Home, Street};
+use crate::network::{PedEdgeKind, PedGraph};
+use crate::pipeline::HomeResult;
+use crate::risk::crossing_delay::{gap_delay, Los};
+use crate::risk::volume::peak_flow_per_s;
+use crate::risk::{edge_risk_points, street_of};
+use serde::Serialize;
+use std::collections::HashMap;
+
+/// One ranked hotspot.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Hotspot {
+    pub rank: usize,
+    pub edge: u32,
+    /// `crossing` or `side`.
+    pub kind: &'static str,
+    pub street_id: String,
+    pub street: String,
+    pub class: &'static str,
+    /// Device and features: `none`, `marked+refuge`, `signal+guard`; sides: the sidewalk.
+    pub control: String,
+    pub speed_kmh: f64,
+    pub lanes: u32,
+    /// Children whose recommended route uses the edge.
+    pub children: f64,
+    /// Risk points of the whole edge (one crossing, or the full side).
+    pub risk: f64,
+    /// Children x risk of the part each walks: the risk the edge adds per school trip.
+    pub product: f64,
+    /// HCM average wait at the crossing (s) and its LOS (crossings only).
+    pub wait_s: Option<f64>,
+    pub los: Option<Los>,
+}
+
+/// Names a control: device plus features, joined by `+`.
+///
+/// ```
+/// use catchwalk::input::{Control, Device};
+/// let c = Control { device: Device::Marked, refuge_island: true, ..Control::UNCONTROLLED };
+/// assert_eq!(catchwalk::score::hotspots::control_label(&c), "marked+refuge");
+/// ```
+pub fn control_label(c: &Control) -> String {
+    let mut parts = vec![device_name(c.device).to_string()];
+    if c.refuge_island {
+        parts.push("refuge".into());
+    }
+    if c.raised {
+        parts.push("raised".into());
+    }
+    if c.guard.is_some() {
+        parts.push("guard".into());
+    }
+    parts.join("+")
+}
+
+/// Ranks the edges of the recommended routes.
+pub fn hotspots(
+    homes: &[HomeResult],
+    layer_homes: &[Home],
+    graph: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+) -> Vec<Hotspot> {
+    // edge -> (children, product)
+    let mut acc: HashMap<u32, (f64, f64)> = HashMap::new();
+    let mut risk_of: HashMap<u32, f64> = HashMap::new();
+    for (i, h) in homes.iter().enumerate() {
+        let (Some(rec), Some(home)) = (&h.recommended, layer_homes.get(i)) else {
+            continue;
+        };
+        let w = home.children as f64;
+        for step in &rec.route.steps {
+            let Some(edge) = graph.edges.get(step.edge as usize) else {
+                continue;
+            };
+            let r = *risk_of
+                .entry(step.edge)
+                .or_insert_with(|| edge_risk_points(graph, edge, streets, &config.risk));
+            if r <= 0.0 {
+                continue;
+            }
+            let share = if edge.is_crossing() {
+                1.0
+            } else {
+                step.share()
+            };
+            let a = acc.entry(step.edge).or_insert((0.0, 0.0));
+            a.0 += w;
+            a.1 += w * share * r;
+        }
+    }
+    let mut out: Vec<Hotspot> = acc
+        .into_iter()
+        .filter(|(_, (c, _))| *c > 0.0)
+        .filter_map(|(e, (children, product))| {
+            let edge = graph.edges.get(e as usize)?;
+            let street = street_of(graph, edge, streets)?;
+            let (kind, control) = match &edge.kind {
+                PedEdgeKind::Crossing { control, .. } => ("crossing", control_label(control)),
+                PedEdgeKind::Side { sidewalk, .. } => (
+                    "side",
+                    serde_json::to_value(sidewalk)
+                        .ok()
+                        .and_then(|v| v.as_str().map(|s| format!("sidewalk_{s}")))
+                        .unwrap_or_default(),
+                ),
+                PedEdgeKind::Path { .. } => ("path", String::new()),
+            };
+            let (wait_s, los) = match edge_facts(graph, edge, streets, &config.risk) {
+                Some(EdgeFacts::Crossing(f)) => {
+                    let d = gap_delay(
+                        f.width_m,
+                        f.lanes,
+                        peak_flow_per_s(f.vehicles_15min),
+                        config.risk.walk_mps,
+                        config.risk.start_up_s,
+                    );
+                    (Some(d.average_delay_s), Some(d.los))
+                }
+                _ => (None, None),
+            };
+            Some(Hotspot {
+                rank: 0,
+                edge: e,
+                kind,
+                street_id: street.id.clone(),
+                street: street_label(street),
+                class: street.class.as_str(),
+                control,
+                speed_kmh: street.speed_kmh,
+                lanes: street.lanes,
+                children,
+                risk: risk_of.get(&e).copied().unwrap_or(0.0),
+                product,
+                wait_s,
+                los,
+            })
+        })
+        .collect();
+    out.sort_by(|a, b| b.product.total_cmp(&a.product).then(a.edge.cmp(&b.edge)));
+    for (i, h) in out.iter_mut().enumerate() {
+        h.rank = i + 1;
+    }
+    out
+}

@@ -1,0 +1,646 @@
+//! Upgrade planner: greedily choose the upgrades that give the most children a safe route.
+//!
+//! Candidates come from the rules that make routes in the walk zone unsafe (on the
+//! recommended or the shortest route): a crossing can get a signal, a crossing guard or a
+//! refuge island; a street can get a lower speed or sidewalks on both sides. Each round
+//! tries every candidate as an overlay on the network, re-routes only the schools whose
+//! routes touch it, and keeps the one that gives the most children a safe route (ties: the
+//! larger cut in risk). Upgrades that gain no child are still taken while they cut risk.
+
+use super::home::{route_findings, score_home, street_label, HomeScore};
+use crate::audit::audit_route;
+use crate::config::Config;
+use crate::input::{Device, SideWalk, Street};
+use crate::network::{Attachment, PedEdgeKind, PedGraph};
+use crate::pipeline::{AuditOutput, AuditedRoute, HomeResult};
+use crate::risk::edge_risk_points;
+use crate::route::path::{entrance_sources, route_to_school};
+use crate::route::tree::Tree;
+use crate::route::{Route, RouteKind};
+use serde::{Deserialize, Serialize};
+use std::collections::{BTreeSet, HashMap};
+
+/// Planner settings.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(default, deny_unknown_fields)]
+pub struct PlanConfig {
+    /// Speed a speed reduction sets (30 km/h zones: common practice).
+    pub speed_target_kmh: f64,
+    /// Candidate edges tried per round, the most-travelled first.
+    pub max_candidates: usize,
+}
+
+impl Default for PlanConfig {
+    fn default() -> Self {
+        PlanConfig {
+            speed_target_kmh: 30.0,
+            max_candidates: 60,
+        }
+    }
+}
+
+/// An upgrade the planner can choose.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Upgrade {
+    /// A traffic signal with pedestrian phase at the crossing.
+    Signal,
+    /// An adult crossing guard at school times.
+    Guard,
+    /// A refuge island in the crossing.
+    Refuge,
+    /// The whole street's speed lowered to the target.
+    SpeedReduction,
+    /// Sidewalks on both sides of the whole street.
+    Sidewalk,
+}
+
+impl Upgrade {
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Upgrade::Signal => "signal",
+            Upgrade::Guard => "guard",
+            Upgrade::Refuge => "refuge",
+            Upgrade::SpeedReduction => "speed_reduction",
+            Upgrade::Sidewalk => "sidewalk",
+        }
+    }
+}
+
+/// One chosen upgrade.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PlanStep {
+    pub rank: usize,
+    pub upgrade: Upgrade,
+    /// The crossing edge, or an edge of the street.
+    pub edge: u32,
+    pub street_id: String,
+    pub street: String,
+    pub children_gained: f64,
+    /// Cut in risk points per school trip, summed over children.
+    pub risk_reduction: f64,
+    pub safe_children_after: f64,
+}
+
+/// Safe-route share of one catchment.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CatchmentShare {
+    pub school: usize,
+    pub school_id: String,
+    pub children_routed: f64,
+    pub children_safe_route: f64,
+    pub safe_route_share: Option<f64>,
+}
+
+/// The planner's answer.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Plan {
+    pub budget: usize,
+    pub steps: Vec<PlanStep>,
+    pub before: Vec<CatchmentShare>,
+    pub after: Vec<CatchmentShare>,
+    pub safe_children_before: f64,
+    pub safe_children_after: f64,
+    pub children_routed: f64,
+}
+
+enum Undo {
+    Edge(u32, PedEdgeKind),
+    Street(usize, f64),
+}
+
+/// Applies an upgrade to working copies of the graph and streets; returns how to undo it.
+fn apply(
+    up: Upgrade,
+    edge: u32,
+    graph: &mut PedGraph,
+    streets: &mut [Street],
+    cfg: &PlanConfig,
+) -> Vec<Undo> {
+    let mut undo = Vec::new();
+    let Some(e) = graph.edges.get(edge as usize) else {
+        return undo;
+    };
+    let street_idx = graph.segments.get(e.segment() as usize).map(|s| s.street);
+    match up {
+        Upgrade::Signal | Upgrade::Guard | Upgrade::Refuge => {
+            if let Some(e) = graph.edges.get_mut(edge as usize) {
+                let old = e.kind.clone();
+                if let PedEdgeKind::Crossing { control, .. } = &mut e.kind {
+                    match up {
+                        Upgrade::Signal => control.device = Device::Signal,
+                        Upgrade::Guard => control.guard = Some(Vec::new()),
+                        _ => control.refuge_island = true,
+                    }
+                    undo.push(Undo::Edge(edge, old));
+                }
+            }
+        }
+        Upgrade::SpeedReduction => {
+            if let Some(s) = street_idx.and_then(|i| streets.get_mut(i).map(|s| (i, s))) {
+                undo.push(Undo::Street(s.0, s.1.speed_kmh));
+                s.1.speed_kmh = s.1.speed_kmh.min(cfg.speed_target_kmh);
+            }
+        }
+        Upgrade::Sidewalk => {
+            let Some(si) = street_idx else { return undo };
+            for (i, e) in graph.edges.iter_mut().enumerate() {
+                let on_street = graph
+                    .segments
+                    .get(e.segment() as usize)
+                    .is_some_and(|s| s.street == si);
+                let old = e.kind.clone();
+                if let PedEdgeKind::Side { sidewalk, .. } = &mut e.kind {
+                    if on_street && matches!(*sidewalk, SideWalk::Absent | SideWalk::Unknown) {
+                        *sidewalk = SideWalk::Present;
+                        undo.push(Undo::Edge(i as u32, old));
+                    }
+                }
+            }
+        }
+    }
+    undo
+}
+
+fn revert(undo: Vec<Undo>, graph: &mut PedGraph, streets: &mut [Street]) {
+    for u in undo.into_iter().rev() {
+        match u {
+            Undo::Edge(i, kind) => {
+                if let Some(e) = graph.edges.get_mut(i as usize) {
+                    e.kind = kind;
+                }
+            }
+            Undo::Street(i, v) => {
+                if let Some(s) = streets.get_mut(i) {
+                    s.speed_kmh = v;
+                }
+            }
+        }
+    }
+}
+
+/// Recommended-route edge costs: length plus risk in metres.
+pub fn recommended_costs(graph: &PedGraph, streets: &[Street], config: &Config) -> Vec<f64> {
+    graph
+        .edges
+        .iter()
+        .map(|e| {
+            e.length_m
+                + config.route.metres_per_risk_point
+                    * edge_risk_points(graph, e, streets, &config.risk)
+        })
+        .collect()
+}
+
+/// Risk points of one trip along a route (partial edges pro rata).
+pub fn route_risk(graph: &PedGraph, streets: &[Street], config: &Config, route: &Route) -> f64 {
+    route
+        .steps
+        .iter()
+        .filter_map(|s| graph.edges.get(s.edge as usize).map(|e| (s, e)))
+        .map(|(s, e)| {
+            let share = if e.is_crossing() { 1.0 } else { s.share() };
+            share * edge_risk_points(graph, e, streets, &config.risk)
+        })
+        .sum()
+}
+
+fn audited(
+    graph: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+    kind: RouteKind,
+    route: Route,
+) -> AuditedRoute {
+    AuditedRoute {
+        kind,
+        audit: audit_route(graph, streets, &route),
+        risk: route_risk(graph, streets, config, &route),
+        route,
+    }
+}
+
+/// The network a re-routing runs on: graph, streets, config and recommended-route costs.
+#[derive(Clone, Copy)]
+pub struct RouteContext<'a> {
+    pub graph: &'a PedGraph,
+    pub streets: &'a [Street],
+    pub config: &'a Config,
+    pub cost: &'a [f64],
+}
+
+/// Re-routes the recommended routes of one school's `members` on a (modified) graph, as the
+/// audit does: one tree, shared snap points, the detour cap against the shortest route.
+/// The shortest routes keep their paths; their audits are redone on the graph.
+///
+/// With `changed` (the edges an upgrade changed), a route that avoids them and comes out the
+/// same as before keeps its old audit; each result says whether the home is unchanged
+/// (`true`). `None` redoes every audit.
+pub fn reroute_school(
+    ctx: &RouteContext,
+    entrances: &[Attachment],
+    members: &[usize],
+    homes: &[HomeResult],
+    changed: Option<&BTreeSet<u32>>,
+) -> Vec<(usize, HomeResult, bool)> {
+    let RouteContext {
+        graph,
+        streets,
+        config,
+        cost,
+    } = *ctx;
+    let touches = |r: &Route| changed.is_none_or(|c| r.steps.iter().any(|s| c.contains(&s.edge)));
+    let mut out = Vec::with_capacity(members.len());
+    let mut tree = Tree::for_graph(graph);
+    let mut targets = Vec::new();
+    for &i in members {
+        if let Some(e) = homes
+            .get(i)
+            .and_then(|h| h.attachment)
+            .and_then(|a| graph.edges.get(a.edge as usize))
+        {
+            targets.push(e.a);
+            targets.push(e.b);
+        }
+    }
+    if !entrances.is_empty() {
+        tree.grow(
+            graph,
+            cost,
+            &entrance_sources(graph, cost, entrances),
+            &targets,
+        );
+    }
+    let mut shared: HashMap<(u32, u64), Option<Route>> = HashMap::new();
+    for &i in members {
+        let Some(h) = homes.get(i) else { continue };
+        let mut nh = h.clone();
+        nh.over_detour_cap = false;
+        let mut same = true;
+        nh.shortest = h.shortest.as_ref().map(|s| {
+            if touches(&s.route) {
+                same = false;
+                audited(graph, streets, config, RouteKind::Shortest, s.route.clone())
+            } else {
+                s.clone()
+            }
+        });
+        nh.recommended = match (h.attachment, entrances.is_empty()) {
+            (Some(att), false) => shared
+                .entry((att.edge, att.offset_m.to_bits()))
+                .or_insert_with(|| route_to_school(graph, &tree, cost, &att, entrances))
+                .clone()
+                .map(|r| match &h.recommended {
+                    Some(old)
+                        if !h.over_detour_cap && old.route.steps == r.steps && !touches(&r) =>
+                    {
+                        AuditedRoute {
+                            route: r,
+                            ..old.clone()
+                        }
+                    }
+                    _ => {
+                        same = false;
+                        audited(graph, streets, config, RouteKind::Recommended, r)
+                    }
+                }),
+            _ => None,
+        };
+        if let (Some(sh), Some(rec)) = (&nh.shortest, &nh.recommended) {
+            if rec.audit.walked_m > config.route.detour_cap * sh.audit.walked_m + 1e-9 {
+                let mut standin = sh.clone();
+                standin.kind = RouteKind::Recommended;
+                nh.recommended = Some(standin);
+                nh.over_detour_cap = true;
+                same = false;
+            }
+        }
+        same &= nh.recommended.is_some() == h.recommended.is_some();
+        out.push((i, nh, same));
+    }
+    out
+}
+
+/// New home results and scores of the re-routed homes, by home index.
+type Evaluation = Vec<(usize, HomeResult, HomeScore)>;
+
+struct State<'a> {
+    out: &'a AuditOutput,
+    graph: PedGraph,
+    streets: Vec<Street>,
+    homes: Vec<HomeResult>,
+    scores: Vec<HomeScore>,
+    members: Vec<Vec<usize>>,
+    /// Recommended-route edge costs of the current graph.
+    cost: Vec<f64>,
+}
+
+impl State<'_> {
+    fn weight(&self, i: usize) -> f64 {
+        self.out
+            .layers
+            .homes
+            .get(i)
+            .map_or(0.0, |h| h.children as f64)
+    }
+    fn students(&self, s: usize) -> crate::input::Students {
+        self.out
+            .layers
+            .schools
+            .get(s)
+            .map(|s| s.students)
+            .unwrap_or_default()
+    }
+    /// Schools whose current routes use any of `edges`.
+    fn touched(&self, edges: &BTreeSet<u32>) -> Vec<usize> {
+        let mut out = BTreeSet::new();
+        for h in &self.homes {
+            let Some(s) = h.assignment.school else {
+                continue;
+            };
+            let uses = [&h.recommended, &h.shortest].iter().any(|r| {
+                r.as_ref()
+                    .is_some_and(|r| r.route.steps.iter().any(|st| edges.contains(&st.edge)))
+            });
+            if uses {
+                out.insert(s);
+            }
+        }
+        out.into_iter().collect()
+    }
+    /// Edges an upgrade changes.
+    fn changed_edges(&self, up: Upgrade, edge: u32) -> BTreeSet<u32> {
+        match up {
+            Upgrade::Signal | Upgrade::Guard | Upgrade::Refuge => [edge].into(),
+            Upgrade::SpeedReduction | Upgrade::Sidewalk => {
+                let street = self
+                    .graph
+                    .edges
+                    .get(edge as usize)
+                    .and_then(|e| self.graph.segments.get(e.segment() as usize))
+                    .map(|s| s.street);
+                self.graph
+                    .edges
+                    .iter()
+                    .enumerate()
+                    .filter(|(_, e)| {
+                        self.graph
+                            .segments
+                            .get(e.segment() as usize)
+                            .is_some_and(|s| Some(s.street) == street)
+                    })
+                    .map(|(i, _)| i as u32)
+                    .collect()
+            }
+        }
+    }
+    /// Re-routes `schools` on the current graph: new home results and scores.
+    /// Edge costs after a change to `changed` edges (the rest are unchanged).
+    fn costs_with(&self, changed: &BTreeSet<u32>) -> Vec<f64> {
+        let cfg = &self.out.config;
+        let mut cost = self.cost.clone();
+        for &k in changed {
+            if let (Some(c), Some(e)) = (cost.get_mut(k as usize), self.graph.edges.get(k as usize))
+            {
+                *c = e.length_m
+                    + cfg.route.metres_per_risk_point
+                        * edge_risk_points(&self.graph, e, &self.streets, &cfg.risk);
+            }
+        }
+        cost
+    }
+    /// Re-routes `schools` on the current graph with edge costs `cost` after `changed`
+    /// edges changed: new home results and scores (unchanged homes keep their scores).
+    fn evaluate(&self, schools: &[usize], cost: &[f64], changed: &BTreeSet<u32>) -> Evaluation {
+        let cfg = &self.out.config;
+        let mut out = Vec::new();
+        for &s in schools {
+            let entrances = self
+                .out
+                .school_att
+                .get(s)
+                .map(|v| v.as_slice())
+                .unwrap_or(&[]);
+            let members = self.members.get(s).map(|v| v.as_slice()).unwrap_or(&[]);
+            let ctx = RouteContext {
+                graph: &self.graph,
+                streets: &self.streets,
+                config: cfg,
+                cost,
+            };
+            let routed = reroute_school(&ctx, entrances, members, &self.homes, Some(changed));
+            for (i, nh, same) in routed {
+                let sc = match self.scores.get(i) {
+                    Some(old) if same => old.clone(),
+                    _ => score_home(
+                        nh.shortest.as_ref(),
+                        nh.recommended.as_ref(),
+                        self.students(s),
+                        &self.graph,
+                        &self.streets,
+                        cfg,
+                    ),
+                };
+                out.push((i, nh, sc));
+            }
+        }
+        out
+    }
+}
+
+fn shares(st: &State, scores: &[HomeScore]) -> Vec<CatchmentShare> {
+    st.out
+        .layers
+        .schools
+        .iter()
+        .enumerate()
+        .map(|(s, school)| {
+            let m = st.members.get(s).map(|v| v.as_slice()).unwrap_or(&[]);
+            let routed: f64 = m
+                .iter()
+                .filter(|&&i| scores.get(i).is_some_and(|x| x.routed))
+                .map(|&i| st.weight(i))
+                .sum();
+            let safe: f64 = m
+                .iter()
+                .filter(|&&i| scores.get(i).is_some_and(|x| x.safe_route))
+                .map(|&i| st.weight(i))
+                .sum();
+            CatchmentShare {
+                school: s,
+                school_id: school.id.clone(),
+                children_routed: routed,
+                children_safe_route: safe,
+                safe_route_share: (routed > 0.0).then(|| safe / routed),
+            }
+        })
+        .collect()
+}
+
+/// Candidate `(upgrade, edge)` pairs, the most-travelled flagged edges first.
+fn candidates(st: &State, cfg: &PlanConfig) -> Vec<(Upgrade, u32)> {
+    let c = &st.out.config;
+    let mut weight: HashMap<u32, f64> = HashMap::new();
+    for (i, (h, sc)) in st.homes.iter().zip(&st.scores).enumerate() {
+        if !sc.routed || sc.safe_route || !sc.in_walk_zone {
+            continue;
+        }
+        let students = h
+            .assignment
+            .school
+            .map(|s| st.students(s))
+            .unwrap_or_default();
+        let mut edges: Vec<u32> = sc.findings.iter().map(|f| f.edge).collect();
+        if let Some(sh) = &h.shortest {
+            edges.extend(
+                route_findings(
+                    &c.score.rules,
+                    &sh.route,
+                    &st.graph,
+                    &st.streets,
+                    students,
+                    c,
+                )
+                .iter()
+                .map(|f| f.edge),
+            );
+        }
+        edges.sort_unstable();
+        edges.dedup();
+        for e in edges {
+            *weight.entry(e).or_insert(0.0) += st.weight(i);
+        }
+    }
+    let mut ranked: Vec<(u32, f64)> = weight.into_iter().collect();
+    ranked.sort_by(|a, b| b.1.total_cmp(&a.1).then(a.0.cmp(&b.0)));
+    let mut out = Vec::new();
+    let mut streets_seen = BTreeSet::new();
+    for (e, _) in ranked.into_iter().take(cfg.max_candidates) {
+        let Some(edge) = st.graph.edges.get(e as usize) else {
+            continue;
+        };
+        let street = st
+            .graph
+            .segments
+            .get(edge.segment() as usize)
+            .map(|s| s.street);
+        let speed = street
+            .and_then(|s| st.streets.get(s))
+            .map_or(0.0, |s| s.speed_kmh);
+        if let PedEdgeKind::Crossing { control, .. } = &edge.kind {
+            if control.device != Device::Signal {
+                out.push((Upgrade::Signal, e));
+            }
+            if control.guard.is_none() {
+                out.push((Upgrade::Guard, e));
+            }
+            if !control.refuge_island {
+                out.push((Upgrade::Refuge, e));
+            }
+        }
+        // Street-wide upgrades once per street.
+        if street.is_some_and(|s| streets_seen.insert(s)) {
+            if speed > cfg.speed_target_kmh {
+                out.push((Upgrade::SpeedReduction, e));
+            }
+            if matches!(edge.kind, PedEdgeKind::Side { .. }) {
+                out.push((Upgrade::Sidewalk, e));
+            }
+        }
+    }
+    out
+}
+
+/// Chooses up to `budget` upgrades greedily. Deterministic: ties go to the smaller
+/// (upgrade, edge).
+pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> Plan {
+    let cfg = &out.config.score.plan;
+    let mut members = vec![Vec::new(); out.layers.schools.len()];
+    for (i, h) in out.homes.iter().enumerate() {
+        if let Some(m) = h.assignment.school.and_then(|s| members.get_mut(s)) {
+            m.push(i);
+        }
+    }
+    let mut st = State {
+        out,
+        graph: out.network.graph.clone(),
+        streets: out.layers.streets.clone(),
+        homes: out.homes.clone(),
+        scores: scores.to_vec(),
+        members,
+        cost: recommended_costs(&out.network.graph, &out.layers.streets, &out.config),
+    };
+    let before = shares(&st, &st.scores);
+    let mut steps = Vec::new();
+    for rank in 1..=budget {
+        let mut best: Option<(f64, f64, Upgrade, u32, Evaluation)> = None;
+        for (up, edge) in candidates(&st, cfg) {
+            let changed = st.changed_edges(up, edge);
+            let schools = st.touched(&changed);
+            if schools.is_empty() {
+                continue;
+            }
+            let undo = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
+            if undo.is_empty() {
+                continue;
+            }
+            let cost = st.costs_with(&changed);
+            let eval = st.evaluate(&schools, &cost, &changed);
+            revert(undo, &mut st.graph, &mut st.streets);
+            let mut gained = 0.0;
+            let mut cut = 0.0;
+            for (i, _, sc) in &eval {
+                let w = st.weight(*i);
+                let old = st.scores.get(*i).cloned().unwrap_or_default();
+                gained += w * (sc.safe_route as u8 as f64 - old.safe_route as u8 as f64);
+                cut += w * (old.risk - sc.risk);
+            }
+            let better = match &best {
+                None => true,
+                Some((g, c, ..)) => gained > *g + 1e-9 || (gained > *g - 1e-9 && cut > *c + 1e-9),
+            };
+            if better && (gained > 1e-9 || cut > 1e-9) {
+                best = Some((gained, cut, up, edge, eval));
+            }
+        }
+        let Some((gained, cut, up, edge, eval)) = best else {
+            break;
+        };
+        let _ = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
+        st.cost = st.costs_with(&st.changed_edges(up, edge));
+        for (i, nh, sc) in eval {
+            if let (Some(h), Some(s)) = (st.homes.get_mut(i), st.scores.get_mut(i)) {
+                *h = nh;
+                *s = sc;
+            }
+        }
+        let street = st
+            .graph
+            .edges
+            .get(edge as usize)
+            .and_then(|e| crate::risk::street_of(&st.graph, e, &st.streets));
+        steps.push(PlanStep {
+            rank,
+            upgrade: up,
+            edge,
+            street_id: street.map(|s| s.id.clone()).unwrap_or_default(),
+            street: street.map(street_label).unwrap_or_default(),
+            children_gained: gained,
+            risk_reduction: cut,
+            safe_children_after: shares(&st, &st.scores)
+                .iter()
+                .map(|c| c.children_safe_route)
+                .sum(),
+        });
+    }
+    let after = shares(&st, &st.scores);
+    Plan {
+        budget,
+        safe_children_before: before.iter().map(|c| c.children_safe_route).sum(),
+        safe_children_after: after.iter().map(|c| c.children_safe_route).sum(),
+        children_routed: before.iter().map(|c| c.children_routed).sum(),
+        steps,
+        before,
+        after,
+    }
+}

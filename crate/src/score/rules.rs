@@ -1,0 +1,513 @@
+//! Rule sets: the safe-route and hazardous-route tests as data, not code.
+//!
+//! A rule set is a small JSON document of our own (see `rules/default.json`,
+//! `rules/pa-447.json` and `docs/methods.md`): each rule applies to a crossing or to a
+//! stretch (a side walked along), lists conditions that must all hold, and gives a verdict
+//! (`unsafe` or `hazardous`) with a reason and its source. Conditions a rule omits do not
+//! restrict it.
+
+use crate::error::{Error, Result};
+use crate::input::{Control, Device, SideWalk, Street, Students};
+use crate::network::{PedEdge, PedEdgeKind, PedGraph};
+use crate::risk::control::guard_on_duty;
+use crate::risk::{crossed_width_m, street_of, volume, RiskConfig};
+use serde::{Deserialize, Serialize};
+
+/// Metres in a foot (exact).
+pub const M_PER_FT: f64 = 0.3048;
+
+/// The rule sets shipped with catchwalk, by name.
+pub const BUILTIN: [(&str, &str); 2] = [
+    ("default", include_str!("../../rules/default.json")),
+    ("pa-447", include_str!("../../rules/pa-447.json")),
+];
+
+/// What a rule concludes when it fires.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Verdict {
+    /// The route is not a safe route.
+    Unsafe,
+    /// The route is hazardous (and so not safe either).
+    Hazardous,
+}
+
+/// What a rule looks at.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Target {
+    Crossing,
+    Stretch,
+}
+
+/// A feature of a crossing's control, as rules name it.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum ControlTag {
+    Marked,
+    Beacon,
+    Stop,
+    AllWayStop,
+    Signal,
+    Refuge,
+    Raised,
+    /// An adult crossing guard on duty during the school travel windows.
+    Guard,
+}
+
+/// How a width between two table rows is read.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum BetweenRows {
+    /// Use the next wider row (its lower threshold): conservative.
+    #[default]
+    NextWider,
+    /// Interpolate linearly between the two rows.
+    Interpolate,
+}
+
+/// Unit of a table's widths.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
+#[serde(rename_all = "snake_case")]
+pub enum WidthUnit {
+    #[default]
+    M,
+    Ft,
+}
+
+impl WidthUnit {
+    fn to_m(self, x: f64) -> f64 {
+        match self {
+            WidthUnit::M => x,
+            WidthUnit::Ft => x * M_PER_FT,
+        }
+    }
+}
+
+/// One row: roadways up to `width` carry at most these vehicles in 15 minutes.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct WidthRow {
+    pub width: f64,
+    pub elementary: f64,
+    pub secondary: f64,
+}
+
+/// A 15-minute volume limit that depends on roadway width (and students' age band).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct VolumeTable {
+    #[serde(default)]
+    pub width_unit: WidthUnit,
+    /// Rows in increasing width; wider than the last row reads the last row.
+    pub rows: Vec<WidthRow>,
+    #[serde(default)]
+    pub between_rows: BetweenRows,
+    /// A raised median at least this wide (table unit) makes two roadways.
+    #[serde(default)]
+    pub median_splits_at: Option<f64>,
+    /// Share of the 15-minute volume on each roadway of a divided road (0.5: even split).
+    #[serde(default = "half")]
+    pub split_share: f64,
+}
+
+fn half() -> f64 {
+    0.5
+}
+
+impl VolumeTable {
+    /// The limit for a roadway `width_m` wide.
+    ///
+    /// ```
+    /// use catchwalk::score::rules::{VolumeTable, WidthRow, WidthUnit, BetweenRows};
+    /// use catchwalk::input::Students;
+    /// let t = VolumeTable {
+    ///     width_unit: WidthUnit::Ft, between_rows: BetweenRows::NextWider,
+    ///     rows: vec![WidthRow { width: 20.0, elementary: 155.0, secondary: 175.0 },
+    ///                WidthRow { width: 24.0, elementary: 130.0, secondary: 150.0 }],
+    ///     median_splits_at: None, split_share: 0.5,
+    /// };
+    /// assert_eq!(t.limit(22.0 * 0.3048, Students::Elementary), Some(130.0));
+    /// ```
+    pub fn limit(&self, width_m: f64, students: Students) -> Option<f64> {
+        let pick = |r: &WidthRow| match students {
+            Students::Elementary => r.elementary,
+            Students::Secondary => r.secondary,
+        };
+        let i = self
+            .rows
+            .iter()
+            .position(|r| width_m <= self.width_unit.to_m(r.width) + 1e-9);
+        match i {
+            None => self.rows.last().map(pick),
+            Some(0) => self.rows.first().map(pick),
+            Some(i) => {
+                let hi = self.rows.get(i)?;
+                match self.between_rows {
+                    BetweenRows::NextWider => Some(pick(hi)),
+                    BetweenRows::Interpolate => {
+                        let lo = self.rows.get(i - 1)?;
+                        let (w0, w1) = (
+                            self.width_unit.to_m(lo.width),
+                            self.width_unit.to_m(hi.width),
+                        );
+                        let t = if w1 > w0 {
+                            (width_m - w0) / (w1 - w0)
+                        } else {
+                            1.0
+                        };
+                        Some(pick(lo) + t * (pick(hi) - pick(lo)))
+                    }
+                }
+            }
+        }
+    }
+
+    /// The roadways a crossing is judged as: one, or two when a wide raised median divides
+    /// it. Each is `(width_m, vehicles_15min)`.
+    pub fn roadways(&self, width_m: f64, median_m: Option<f64>, v15: f64) -> Vec<(f64, f64)> {
+        match (self.median_splits_at, median_m) {
+            (Some(at), Some(m)) if m + 1e-9 >= self.width_unit.to_m(at) => {
+                let each = ((width_m - m) / 2.0).max(0.0);
+                let share = self.split_share.clamp(0.0, 1.0);
+                vec![(each, v15 * share), (each, v15 * (1.0 - share))]
+            }
+            _ => vec![(width_m, v15)],
+        }
+    }
+}
+
+/// One rule. Every condition present must hold for the rule to fire.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Rule {
+    pub id: String,
+    pub on: Target,
+    pub verdict: Verdict,
+    pub reason: String,
+    #[serde(default)]
+    pub source: String,
+    /// What the data cannot show and a site visit must check.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub site_check: Option<String>,
+    /// Only for schools of this age band.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub students: Option<Students>,
+    // Crossing conditions.
+    /// The rule does not fire if the crossing has any of these.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub unless_control: Vec<ControlTag>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub lanes_ge: Option<u32>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub width_m_gt: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub vehicles_15min_over_table: Option<VolumeTable>,
+    // Both.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub speed_kmh_gt: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub speed_kmh_ge: Option<f64>,
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub vehicles_15min_gt: Option<f64>,
+    // Stretch conditions.
+    /// Fires only on sides whose sidewalk is one of these.
+    #[serde(default, skip_serializing_if = "Vec::is_empty")]
+    pub sidewalk_in: Vec<SideWalk>,
+    /// Shoulder narrower than this (a missing shoulder is 0 m).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub shoulder_m_lt: Option<f64>,
+    /// Roadway (kerb-to-kerb) narrower than this.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub roadway_width_m_lt: Option<f64>,
+    /// The route must walk more than this along matching sides before the rule fires.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub min_length_m: Option<f64>,
+}
+
+/// A named rule set.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RuleSet {
+    pub name: String,
+    #[serde(default)]
+    pub title: String,
+    #[serde(default)]
+    pub source: String,
+    #[serde(default)]
+    pub notes: Vec<String>,
+    pub rules: Vec<Rule>,
+}
+
+impl Default for RuleSet {
+    /// The shipped `default` set (tested to parse; empty only if it ever failed to).
+    fn default() -> Self {
+        RuleSet::builtin("default").unwrap_or(RuleSet {
+            name: "default".into(),
+            title: String::new(),
+            source: String::new(),
+            notes: Vec::new(),
+            rules: Vec::new(),
+        })
+    }
+}
+
+impl RuleSet {
+    /// Parses a rule set from JSON; unknown fields are refused so a typo does not pass.
+    pub fn from_json(text: &str) -> Result<RuleSet> {
+        serde_json::from_str(text).map_err(|e| {
+            Error::Config(format!(
+                "rules: {e}; see docs/methods.md (rule sets) for the fields a rule may use"
+            ))
+        })
+    }
+    /// A shipped rule set by name (`default`, `pa-447`).
+    ///
+    /// ```
+    /// let pa = catchwalk::score::rules::RuleSet::builtin("pa-447").unwrap();
+    /// assert_eq!(pa.name, "pa-447");
+    /// ```
+    pub fn builtin(name: &str) -> Option<RuleSet> {
+        BUILTIN
+            .iter()
+            .find(|(n, _)| *n == name)
+            .and_then(|(_, text)| RuleSet::from_json(text).ok())
+    }
+}
+
+/// Facts about one crossing that rules read.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CrossingFacts {
+    pub tags: Vec<ControlTag>,
+    pub width_m: f64,
+    pub lanes: u32,
+    pub speed_kmh: f64,
+    pub vehicles_15min: f64,
+    pub median_m: Option<f64>,
+}
+
+/// Facts about one side walked along.
+#[derive(Debug, Clone, PartialEq)]
+pub struct StretchFacts {
+    pub sidewalk: SideWalk,
+    pub shoulder_m: f64,
+    pub roadway_width_m: f64,
+    pub speed_kmh: f64,
+    pub vehicles_15min: f64,
+}
+
+/// The tags of a control, with guards counted only when on duty at school times.
+pub fn control_tags(c: &Control, risk: &RiskConfig) -> Vec<ControlTag> {
+    let mut t = Vec::new();
+    match c.device {
+        Device::None => {}
+        Device::Marked => t.push(ControlTag::Marked),
+        Device::Beacon => t.push(ControlTag::Beacon),
+        Device::Stop => t.push(ControlTag::Stop),
+        Device::AllWayStop => t.push(ControlTag::AllWayStop),
+        Device::Signal => t.push(ControlTag::Signal),
+    }
+    if c.refuge_island {
+        t.push(ControlTag::Refuge);
+    }
+    if c.raised {
+        t.push(ControlTag::Raised);
+    }
+    if guard_on_duty(&c.guard, &risk.school_windows) {
+        t.push(ControlTag::Guard);
+    }
+    t
+}
+
+/// Roadway width of a street: its width, else lanes x lane width.
+pub fn roadway_width_m(street: &Street, risk: &RiskConfig) -> f64 {
+    street
+        .width_m
+        .filter(|w| *w > 0.0)
+        .unwrap_or(street.lanes.max(1) as f64 * risk.lane_width_m)
+}
+
+/// What rules see of an edge, if it is a crossing or side of a road (foot-only: nothing).
+pub enum EdgeFacts {
+    Crossing(CrossingFacts),
+    Stretch(StretchFacts),
+}
+
+/// Reads the facts of an edge.
+pub fn edge_facts(
+    graph: &PedGraph,
+    edge: &PedEdge,
+    streets: &[Street],
+    risk: &RiskConfig,
+) -> Option<EdgeFacts> {
+    let street = street_of(graph, edge, streets)?;
+    if street.class.is_foot_only() {
+        return None;
+    }
+    let v15 = volume::vehicles_15min(street, &risk.volume);
+    match &edge.kind {
+        PedEdgeKind::Crossing { control, .. } => Some(EdgeFacts::Crossing(CrossingFacts {
+            tags: control_tags(control, risk),
+            width_m: crossed_width_m(edge, street, risk),
+            lanes: street.lanes,
+            speed_kmh: street.speed_kmh,
+            vehicles_15min: v15,
+            median_m: street.median_m,
+        })),
+        PedEdgeKind::Side { sidewalk, .. } => Some(EdgeFacts::Stretch(StretchFacts {
+            sidewalk: *sidewalk,
+            shoulder_m: street.shoulder_m.unwrap_or(0.0),
+            roadway_width_m: roadway_width_m(street, risk),
+            speed_kmh: street.speed_kmh,
+            vehicles_15min: v15,
+        })),
+        PedEdgeKind::Path { .. } => None,
+    }
+}
+
+fn speed_ok(rule: &Rule, speed: f64) -> bool {
+    rule.speed_kmh_gt.is_none_or(|x| speed > x) && rule.speed_kmh_ge.is_none_or(|x| speed >= x)
+}
+
+impl Rule {
+    fn students_ok(&self, students: Students) -> bool {
+        self.students.is_none_or(|s| s == students)
+    }
+
+    /// Whether the rule fires on a crossing with these facts.
+    pub fn fires_on_crossing(&self, f: &CrossingFacts, students: Students) -> bool {
+        if self.on != Target::Crossing || !self.students_ok(students) {
+            return false;
+        }
+        if self.unless_control.iter().any(|t| f.tags.contains(t)) {
+            return false;
+        }
+        let table_ok = self.vehicles_15min_over_table.as_ref().is_none_or(|t| {
+            t.roadways(f.width_m, f.median_m, f.vehicles_15min)
+                .iter()
+                .any(|(w, v)| t.limit(*w, students).is_some_and(|lim| *v > lim))
+        });
+        speed_ok(self, f.speed_kmh)
+            && self.lanes_ge.is_none_or(|n| f.lanes >= n)
+            && self.width_m_gt.is_none_or(|w| f.width_m > w)
+            && self.vehicles_15min_gt.is_none_or(|v| f.vehicles_15min > v)
+            && table_ok
+    }
+
+    /// Whether a side with these facts matches the rule (the length test is the route's).
+    pub fn matches_stretch(&self, f: &StretchFacts, students: Students) -> bool {
+        self.on == Target::Stretch
+            && self.students_ok(students)
+            && (self.sidewalk_in.is_empty() || self.sidewalk_in.contains(&f.sidewalk))
+            && self.shoulder_m_lt.is_none_or(|s| f.shoulder_m < s)
+            && self
+                .roadway_width_m_lt
+                .is_none_or(|w| f.roadway_width_m < w)
+            && speed_ok(self, f.speed_kmh)
+            && self.vehicles_15min_gt.is_none_or(|v| f.vehicles_15min > v)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn shipped_sets_parse() {
+        for (name, text) in BUILTIN {
+            let set = RuleSet::from_json(text).unwrap_or_else(|e| panic!("{name}: {e}"));
+            assert_eq!(set.name, name);
+            assert!(!set.rules.is_empty());
+        }
+        assert_eq!(RuleSet::default().name, "default");
+        assert!(RuleSet::builtin("nope").is_none());
+    }
+
+    #[test]
+    fn a_typo_is_refused_with_a_pointer_to_the_docs() {
+        let e = RuleSet::from_json(r#"{"name":"x","rules":[{"id":"a","on":"crossing","verdict":"unsafe","reason":"r","speed_gt":3}]}"#)
+            .unwrap_err()
+            .to_string();
+        assert!(
+            e.contains("speed_gt") && e.contains("docs/methods.md"),
+            "{e}"
+        );
+    }
+
+    fn pa_table() -> VolumeTable {
+        let pa = RuleSet::builtin("pa-447").unwrap();
+        pa.rules
+            .iter()
+            .find_map(|r| r.vehicles_15min_over_table.clone())
+            .unwrap()
+    }
+
+    /// 67 Pa. Code § 447.4(a)(2), Table I (read at casetext.com and pacodeandbulletin.gov):
+    /// roadway width (ft) 20 or less / 24 / 30 / 36 / 48 -> vehicles in any 15 minutes,
+    /// elementary 155 / 130 / 100 / 80 / 40, secondary 175 / 150 / 120 / 100 / 60.
+    #[test]
+    fn pa_447_table_i_values() {
+        let t = pa_table();
+        let ft = |x: f64| x * M_PER_FT;
+        for (w, e, s) in [
+            (20.0, 155.0, 175.0),
+            (24.0, 130.0, 150.0),
+            (30.0, 100.0, 120.0),
+            (36.0, 80.0, 100.0),
+            (48.0, 40.0, 60.0),
+        ] {
+            assert_eq!(t.limit(ft(w), Students::Elementary), Some(e), "{w} ft");
+            assert_eq!(t.limit(ft(w), Students::Secondary), Some(s), "{w} ft");
+        }
+        // "20 or less"; between rows the next wider row (conservative); beyond 48 ft, 48.
+        assert_eq!(t.limit(ft(12.0), Students::Elementary), Some(155.0));
+        assert_eq!(t.limit(ft(20.5), Students::Elementary), Some(130.0));
+        assert_eq!(t.limit(ft(31.0), Students::Secondary), Some(100.0));
+        assert_eq!(t.limit(ft(60.0), Students::Elementary), Some(40.0));
+    }
+
+    /// Table I footnote: a raised median at least 8 ft wide with non-mountable curbs makes
+    /// the roadway two separate roadways.
+    #[test]
+    fn pa_447_median_rule() {
+        let pa = RuleSet::builtin("pa-447").unwrap();
+        let rule = pa
+            .rules
+            .iter()
+            .find(|r| r.vehicles_15min_over_table.is_some())
+            .unwrap();
+        // 56 ft kerb to kerb, 100 vehicles in 15 minutes: over the 48 ft row's 40.
+        let mut f = CrossingFacts {
+            tags: vec![],
+            width_m: 56.0 * M_PER_FT,
+            lanes: 4,
+            speed_kmh: 56.0,
+            vehicles_15min: 100.0,
+            median_m: None,
+        };
+        assert!(rule.fires_on_crossing(&f, Students::Elementary));
+        // An 8 ft median: two 24 ft roadways of 50 vehicles each, under 24 ft's 130.
+        f.median_m = Some(8.0 * M_PER_FT);
+        assert!(!rule.fires_on_crossing(&f, Students::Elementary));
+        // A 7 ft median does not divide it.
+        f.median_m = Some(7.0 * M_PER_FT);
+        assert!(rule.fires_on_crossing(&f, Students::Elementary));
+        // Signal, stop sign or an adult guard take the crossing out of the rule.
+        f.median_m = None;
+        for tag in [ControlTag::Signal, ControlTag::Stop, ControlTag::Guard] {
+            f.tags = vec![tag];
+            assert!(!rule.fires_on_crossing(&f, Students::Elementary), "{tag:?}");
+        }
+        // A marked crosswalk alone does not.
+        f.tags = vec![ControlTag::Marked];
+        assert!(rule.fires_on_crossing(&f, Students::Elementary));
+    }
+
+    #[test]
+    fn interpolation_reads_between_rows() {
+        let mut t = pa_table();
+        t.between_rows = BetweenRows::Interpolate;
+        let v = t.limit(22.0 * M_PER_FT, Students::Elementary).unwrap();
+        assert!((v - 142.5).abs() < 1e-9);
+    }
+}
