@@ -92,6 +92,23 @@ pub fn default_config() -> String {
     serde_json::to_string(&Config::default()).unwrap_or_default()
 }
 
+/// A rule set shipped with the core, by name (`default`, ...), as JSON; empty when unknown.
+#[wasm_bindgen(js_name = ruleSet)]
+pub fn rule_set(name: &str) -> String {
+    crate::score::rules::RuleSet::builtin(name)
+        .and_then(|r| serde_json::to_string(&r).ok())
+        .unwrap_or_default()
+}
+
+/// The names of the rule sets shipped with the core.
+#[wasm_bindgen(js_name = ruleSetNames)]
+pub fn rule_set_names() -> Vec<String> {
+    crate::score::rules::BUILTIN
+        .iter()
+        .map(|(n, _)| n.to_string())
+        .collect()
+}
+
 /// The caution every result carries.
 #[wasm_bindgen]
 pub fn caution() -> String {
@@ -100,8 +117,9 @@ pub fn caution() -> String {
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
 /// catchments?, preset?, mapping?}` with each layer as text; `config_json`: a config
-/// (empty for defaults). Returns one JSON: summary, homes CSV, routes, QA, centrelines,
-/// the validated layers and the warnings. An error comes back as `{message, at}` JSON.
+/// (empty for defaults). Returns one JSON: summary (with the catchment scores), homes CSV,
+/// routes, QA, centrelines, hotspots, the validated layers and the warnings. An error comes
+/// back as `{message, at}` JSON.
 #[wasm_bindgen]
 pub fn audit(
     layers_json: &str,
@@ -123,6 +141,7 @@ pub fn audit(
         "routes": export::routes_geojson(&out),
         "qa": export::qa_geojson(&out.network.qa),
         "centrelines": export::centrelines_geojson(&out),
+        "hotspots": export::hotspots_geojson(&out),
         "layers": {
             "crossings": out.layers.crossings,
             "schools": out.layers.schools,
