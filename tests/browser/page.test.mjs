@@ -190,13 +190,16 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   // The printable report.
   await page.selectOption('#report-scope', { index: 1 });
   await page.click('#x-report');
-  await page.waitForFunction(() => document.body.classList.contains('printing'));
-  const report = await page.locator('#report').innerText();
+  await page.waitForSelector('#report:not([hidden]) .report-map');
+  await page.screenshot({ path: join(shots, '07-report-screen.png') });
+  const report = await page.locator('#report-body').innerText();
   assert.match(report, /Catchment of/);
   assert.match(report, /Screening tool/);
   assert.match(report, /Sources/);
+  assert.match(report, /shows no single home/, 'a shared report leaves homes out');
+  assert.equal(await page.evaluate(() => window.catchwalk.map.getLayoutProperty('homes-pt', 'visibility')), 'visible', 'homes shown again on the page');
   await page.emulateMedia({ media: 'print' });
-  await page.screenshot({ path: join(shots, '07-report.png'), fullPage: true });
+  await page.screenshot({ path: join(shots, '08-report-print.png'), fullPage: true });
 
   assert.deepEqual(leaks, [], 'no request leaves 127.0.0.1');
   assert.deepEqual(errors, [], 'no errors in the page');
@@ -214,7 +217,7 @@ test('single-file build opens from file:// and audits the demo town', async () =
   const pick = [...rows.values()].find((r) => Number(r.crossings) >= 1 && r.shortest_network_m !== '');
   const fig = await clickHome(page, pick.home_id);
   assert.equal(metres(fig['Network length'].shortest), Math.round(Number(pick.shortest_network_m)));
-  await page.screenshot({ path: join(shots, '08-single-file.png') });
+  await page.screenshot({ path: join(shots, '09-single-file.png') });
   assert.deepEqual(leaks, [], 'no request leaves the machine');
   assert.deepEqual(errors, [], 'no errors in the page');
   await page.context().close();

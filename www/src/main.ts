@@ -323,22 +323,31 @@ async function printReport() {
   const scope = ($('report-scope') as HTMLSelectElement).value || null;
   showTab('charts');
   drawCharts(view);
-  // The legend folds away so the capture frames the scope alone.
+  // The map is drawn once at a fixed landscape size, legend folded, framing the scope alone.
   const legend = $('legend');
   const wasOpen = !legend.classList.contains('folded');
   legend.classList.add('folded');
+  $('map').classList.add('capture');
+  map.map.resize();
+  const individual = includeHomes.checked;
+  map.hideHomes(!individual);
   if (scope) select('catchment', scope);
   else { selected = null; reselect(); map.fit(view.doc.centrelines); }
   await new Promise<void>((r) => map.map.once('idle', () => r()));
+  const mapImage = map.image();
+  map.hideHomes(false);
+  $('map').classList.remove('capture');
+  map.map.resize();
   if (wasOpen) legend.classList.remove('folded');
   const fl: Record<string, string> = {};
   for (const k of LAYER_KEYS) if (files[k]) fl[k] = files[k]?.name ?? '';
-  buildReport($('report'), { view, scope, mapImage: map.image(), charts: chartImages(), files: fl, settings: settings.json(), caution: engine.caution || view.doc.summary.caution });
+  buildReport($('report-body'), { view, scope, mapImage, charts: chartImages(), files: fl, settings: settings.json(), caution: engine.caution || view.doc.summary.caution, individual });
   $('report').hidden = false;
-  document.body.classList.add('printing');
-  window.print();
+  $('report').scrollTop = 0;
+  document.body.classList.add('reporting');
 }
-window.addEventListener('afterprint', () => { document.body.classList.remove('printing'); $('report').hidden = true; });
+$('report-print').addEventListener('click', () => window.print());
+$('report-close').addEventListener('click', () => { $('report').hidden = true; document.body.classList.remove('reporting'); });
 
 // ---------- wiring ----------
 

@@ -315,13 +315,21 @@ export class AuditMap {
   /** Room on the left for the legend when it is open, so fitted features are not under it. */
   private padding(extra: number) {
     const legend = document.getElementById('legend');
-    const left = legend && !legend.classList.contains('folded') ? legend.offsetWidth + 20 : 0;
+    const capture = this.map.getContainer().classList.contains('capture');
+    const left = legend && !capture && !legend.classList.contains('folded') ? legend.offsetWidth + 20 : 0;
     return { top: extra, bottom: extra, right: extra, left: left + extra };
   }
 
   fit(fc: FeatureCollection | Feature[], maxZoom = 17) {
     const b = bounds({ type: 'FeatureCollection', features: Array.isArray(fc) ? fc : fc.features });
-    if (b) this.map.fitBounds(b, { padding: this.padding(50), maxZoom, duration: 300 });
+    const still = this.map.getContainer().classList.contains('capture');
+    if (b) this.map.fitBounds(b, { padding: this.padding(50), maxZoom, duration: still ? 0 : 300 });
+  }
+
+  /** Hides (or shows again) every layer that places a single home: homes and routes. */
+  hideHomes(hide: boolean) {
+    for (const id of ['homes-cluster', 'homes-pt', 'sel-home', 'sel-shortest', 'sel-recommended'])
+      if (this.map.getLayer(id)) this.map.setLayoutProperty(id, 'visibility', hide ? 'none' : 'visible');
   }
 
   image(): string {

@@ -21,6 +21,8 @@ export interface ReportInput {
   files: Record<string, string>;
   settings: string;
   caution: string;
+  /** The planner ticked "include individual homes": the map shows homes and routes. */
+  individual: boolean;
 }
 
 export function buildReport(host: HTMLElement, r: ReportInput) {
@@ -40,6 +42,7 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
       el('p', {}, `catchwalk audit, ${new Date().toLocaleDateString('en-CA')} · walk zone ${view.walkZoneM} m · ${children} children in ${homes.length} homes`)),
     el('p', { class: 'caution' }, r.caution),
     el('img', { class: 'report-map', src: r.mapImage, alt: 'map of the audited network' }),
+    el('p', { class: 'small' }, r.individual ? 'Map: streets by speed, crossings by control, homes and routes, hotspots (red circles), network checks (pink rings).' : 'Map: streets by speed, crossings by control, hotspots sized by children × risk (red circles), network checks (pink rings); homes and routes left out.'),
     el('h2', {}, 'Children by route'),
     el('table', { class: 'figures narrow' }, el('tbody', {},
       ...[['Safe route (passes every test)', byStatus('safe')], ['Route fails a safety test', byStatus('unsafe')], ['Hazardous route', byStatus('hazardous')], ['Beyond the walk zone', byStatus('beyond')], ['No route found', byStatus('unreached')]]
@@ -60,6 +63,8 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
     el('ul', {},
       el('li', {}, r.caution),
       el('li', {}, 'Figures are only as good as the layers: missing sidewalks, crossings or speeds change routes and scores. Check the data problems listed by the audit.'),
-      el('li', {}, 'This report shows no single home. Keep files with individual homes inside your organisation.')),
+      el('li', {}, r.individual
+        ? 'This report shows individual homes and their routes (personal data): keep it inside your organisation.'
+        : 'This report shows no single home: the map leaves homes and routes out; figures are counts per catchment.')),
   );
 }
