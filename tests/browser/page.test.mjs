@@ -54,6 +54,13 @@ async function figures(page) {
   })));
 }
 
+/** Waits for the map to finish moving and drawing. */
+const mapIdle = (page) => page.evaluate(() => new Promise((r) => {
+  const m = window.catchwalk.map;
+  if (!m.isMoving() && m.loaded()) requestAnimationFrame(() => r());
+  else m.once('idle', () => r());
+}));
+
 const audits = (page) => page.evaluate(() => Number(document.body.dataset.audits ?? 0));
 
 /** Types a value into a setting and leaves the field, as a planner does. */
@@ -93,6 +100,8 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   assert.equal(Number(fig['Walking time'].shortest.replace(' min', '')), Number(Number(pick.shortest_walking_time_min).toFixed(1)));
   const drawn = await page.evaluate(() => window.catchwalk.map.getSource('sel-routes')._data?.features?.length ?? window.catchwalk.map.querySourceFeatures('sel-routes').length);
   assert.ok(drawn >= 1, 'the routes are drawn');
+  await page.waitForTimeout(350);
+  await mapIdle(page);
   await page.screenshot({ path: join(shots, '02-home-routes.png') });
 
   // Export homes CSV (individual homes ticked) and compare with the CLI's.
@@ -134,6 +143,8 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   await page.click('.tabs button[data-tab="table"]');
   await page.click('#catchment-table tbody tr:first-child');
   await page.waitForSelector('#catchment-figures');
+  await page.waitForTimeout(350);
+  await mapIdle(page);
   await page.screenshot({ path: join(shots, '03-catchment.png') });
   await page.click('.tabs button[data-tab="table"]');
   await page.click('#catchment-table th[data-key="children"]');
@@ -217,6 +228,8 @@ test('single-file build opens from file:// and audits the demo town', async () =
   const pick = [...rows.values()].find((r) => Number(r.crossings) >= 1 && r.shortest_network_m !== '');
   const fig = await clickHome(page, pick.home_id);
   assert.equal(metres(fig['Network length'].shortest), Math.round(Number(pick.shortest_network_m)));
+  await page.waitForTimeout(350);
+  await mapIdle(page);
   await page.screenshot({ path: join(shots, '09-single-file.png') });
   assert.deepEqual(leaks, [], 'no request leaves the machine');
   assert.deepEqual(errors, [], 'no errors in the page');

@@ -294,7 +294,7 @@ function renderLegend() {
     ...DEVICES.map((d) => row(icon(d.key), d.label)),
     el('h4', {}, 'Homes'),
     ...HOME_STATUS.map((s) => row(sw(s.color, 'sw dot'), s.label)),
-    el('p', { class: 'small' }, 'Larger circles: homes grouped at this zoom, sized by children; green when all have a safe route, orange when none has.'),
+    el('p', { class: 'small' }, 'Larger circles: homes grouped at this zoom, sized by children; green when every child in the walk zone has a safe route, orange when none has, grey when all live beyond it.'),
     el('h4', {}, 'Routes'),
     row(el('span', { class: 'sw line dash', style: `border-color:${ROUTE_STYLE.shortest.color}` }), ROUTE_STYLE.shortest.label),
     row(sw(ROUTE_STYLE.recommended.color, 'sw line thick'), ROUTE_STYLE.recommended.label),

@@ -69,6 +69,7 @@ export class AuditMap {
       clusterProperties: {
         children: ['+', ['get', 'children']],
         safe: ['+', ['case', ['==', ['get', 'status'], 'safe'], ['get', 'children'], 0]],
+        unsafe: ['+', ['case', ['in', ['get', 'status'], ['literal', ['unsafe', 'hazardous']]], ['get', 'children'], 0]],
       },
     });
     m.addLayer({
@@ -164,10 +165,13 @@ export class AuditMap {
       source: 'homes',
       filter: ['has', 'point_count'],
       paint: {
-        'circle-color': [
-          'interpolate', ['linear'], ['/', ['get', 'safe'], ['max', 1, ['get', 'children']]],
-          0, HOME_STATUS[1].color, 0.5, '#d9b441', 1, HOME_STATUS[0].color,
-        ],
+        // Share with a safe route among the grouped children inside the walk zone; grey when
+        // every one of them lives beyond it.
+        'circle-color': ex([
+          'case', ['==', ['+', ['get', 'safe'], ['get', 'unsafe']], 0], '#8c8c8c',
+          ['interpolate', ['linear'], ['/', ['get', 'safe'], ['+', ['get', 'safe'], ['get', 'unsafe']]],
+            0, HOME_STATUS[1].color, 0.5, '#d9b441', 1, HOME_STATUS[0].color],
+        ]),
         'circle-opacity': 0.8,
         'circle-stroke-color': '#ffffff',
         'circle-stroke-width': 1.5,

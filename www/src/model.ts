@@ -90,12 +90,13 @@ export function buildView(doc: AuditDoc): View {
   const rows = new Map(homesCsvRows(doc).map((r) => [r['home_id'], r]));
   const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
     const r = routes.get(h.id) ?? { shortest: null, recommended: null };
+    const row = rows.get(h.id);
     let status: HomeStatus;
     let reasons: string[] = [];
     if (!r.shortest || !r.recommended) {
       status = 'unreached';
       reasons = ['no walking route to a school was found'];
-    } else if (r.shortest.properties.network_m > walkZoneM) {
+    } else if (row && row['in_walk_zone'] !== undefined && row['in_walk_zone'] !== '' ? row['in_walk_zone'] === 'false' : r.shortest.properties.network_m > walkZoneM) {
       status = 'beyond';
       reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${walkZoneM} m walk zone`];
     } else {
@@ -120,7 +121,7 @@ export function buildView(doc: AuditDoc): View {
       recommended: r.recommended,
       status,
       reasons,
-      row: rows.get(h.id) ?? {},
+      row: row ?? {},
     };
   });
   const byId = new Map(homes.map((h) => [h.id, h]));
