@@ -117,8 +117,8 @@ pub fn caution() -> String {
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
 /// catchments?, preset?, mapping?}` with each layer as text; `config_json`: a config
-/// (empty for defaults). Returns one JSON: summary (with the catchment scores), homes CSV,
-/// routes, QA, centrelines, hotspots, the validated layers and the warnings. An error comes
+/// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
+/// catchments and hotspots CSV tables, routes, QA, centrelines, hotspots, the validated layers and the warnings. An error comes
 /// back as `{message, at}` JSON.
 #[wasm_bindgen]
 pub fn audit(
@@ -138,6 +138,8 @@ pub fn audit(
     let doc: Value = json!({
         "summary": export::summary_json(&out),
         "homes_csv": export::homes_csv(&out),
+        "catchments_csv": export::catchments_csv(&out),
+        "hotspots_csv": export::hotspots_csv(&out),
         "routes": export::routes_geojson(&out),
         "qa": export::qa_geojson(&out.network.qa),
         "centrelines": export::centrelines_geojson(&out),

@@ -9,9 +9,9 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
 import { serve } from '../../www/serve.mjs';
-import { assertSameHomesCsv, cliHomesCsv, parseCsv } from '../wasm/compare.mjs';
+import { assertSameHomesCsv, cliAudit, parseCsv } from '../wasm/compare.mjs';
 
-let browser, server, base, cliCsv;
+let browser, server, base, cliCsv, cliDir;
 const demo = join(root, 'sample-maps', 'demo-town');
 const tmp = mkdtempSync(join(tmpdir(), 'catchwalk-page-'));
 
@@ -19,7 +19,8 @@ before(async () => {
   server = await serve(join(root, 'www', 'build'), 0);
   base = `http://127.0.0.1:${server.address().port}/`;
   browser = await launch();
-  cliCsv = cliHomesCsv();
+  cliDir = cliAudit();
+  cliCsv = readFileSync(join(cliDir, 'homes.csv'), 'utf8');
 });
 after(async () => {
   await browser?.close();
@@ -111,6 +112,13 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   const exported = readFileSync(await dl.path(), 'utf8');
   const { numeric } = assertSameHomesCsv(exported, cliCsv, 1e-9);
   assert.ok(numeric > 390 * 20);
+  // The catchment and hotspot tables are the command line's, figure for figure.
+  for (const [button, file] of [['#x-catchments', 'catchments.csv'], ['#x-hotspots-csv', 'hotspots.csv']]) {
+    const [d] = await Promise.all([page.waitForEvent('download'), page.click(button)]);
+    const got = readFileSync(await d.path(), 'utf8');
+    assertSameHomesCsv(got, readFileSync(join(cliDir, file), 'utf8'), 1e-9, file);
+    assert.ok(parseCsv(got).length > 5, `${file} has rows`);
+  }
   // Shared routes export has no home in it.
   await page.uncheck('#include-homes');
   const [dl2] = await Promise.all([page.waitForEvent('download'), page.click('#x-routes')]);

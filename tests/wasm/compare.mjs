@@ -39,11 +39,11 @@ export function parseCsv(text) {
  * wasm and native can move a last digit). Returns the number of numeric cells compared and the
  * largest difference seen.
  */
-export function assertSameHomesCsv(actualText, expectedText, tol = 0.011) {
+export function assertSameHomesCsv(actualText, expectedText, tol = 0.011, name = 'homes.csv') {
   const a = parseCsv(actualText);
   const e = parseCsv(expectedText);
-  assert.deepEqual(a[0], e[0], 'homes.csv headers differ');
-  assert.equal(a.length, e.length, 'homes.csv row counts differ');
+  assert.deepEqual(a[0], e[0], `${name} headers differ`);
+  assert.equal(a.length, e.length, `${name} row counts differ`);
   let numeric = 0, maxDiff = 0;
   for (let r = 1; r < e.length; r++) {
     assert.equal(a[r].length, e[r].length, `row ${r}: cell counts differ`);
@@ -65,11 +65,16 @@ export function assertSameHomesCsv(actualText, expectedText, tol = 0.011) {
 
 /** Runs the native CLI on the demo town and returns its homes.csv. */
 export function cliHomesCsv(homesFile = 'homes.geojson', extra = []) {
+  return readFileSync(join(cliAudit(homesFile, extra), 'homes.csv'), 'utf8');
+}
+
+/** Runs the native CLI's audit on the demo town; returns the folder it wrote. */
+export function cliAudit(homesFile = 'homes.geojson', extra = []) {
   assert.ok(existsSync(cli), `native CLI not found at ${cli} (set CATCHWALK_CLI or run make build)`);
   const out = mkdtempSync(join(tmpdir(), 'catchwalk-cli-'));
   execFileSync(cli, ['audit', '--streets', join(demo, 'streets.geojson'), '--schools', join(demo, 'schools.geojson'),
     '--homes', join(demo, homesFile), '--crossings', join(demo, 'crossings.geojson'),
     '--catchments', join(demo, 'catchments.geojson'), '--out', out, ...extra], { stdio: ['ignore', 'ignore', 'inherit'] });
-  return readFileSync(join(out, 'homes.csv'), 'utf8');
+  return out;
 }
 

@@ -50,8 +50,16 @@ export function saveHotspots(view: View) {
   download(`catchwalk-hotspots-${stamp()}.geojson`, JSON.stringify(fc), 'application/geo+json');
 }
 
+/** The core's catchments.csv when it scores catchments (the same file as the command line's). */
 export function saveCatchments(view: View) {
-  download(`catchwalk-catchments-${stamp()}.csv`, catchmentsCsv(view), 'text/csv');
+  const core = view.doc['catchments_csv'];
+  download(`catchwalk-catchments-${stamp()}.csv`, typeof core === 'string' && core ? core : catchmentsCsv(view), 'text/csv');
+}
+
+/** The core's hotspots.csv: edges, not homes, so safe to share. */
+export function saveHotspotsCsv(view: View) {
+  const core = view.doc['hotspots_csv'];
+  if (typeof core === 'string') download(`catchwalk-hotspots-${stamp()}.csv`, core, 'text/csv');
 }
 
 /** The core's homes.csv as it is (same columns and figures as the command line's). */

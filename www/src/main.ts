@@ -3,7 +3,7 @@
 import { chartImages, drawCharts } from './charts';
 import { $, download, el } from './dom';
 import { Engine } from './engine';
-import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveRoutes } from './exports';
+import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
 import { buildView, type View } from './model';
 import { DEVICES, HOME_STATUS, PATH_COLOR, QA_COLOR, ROUTE_STYLE, SPEED_BANDS, deficitColor, deviceImage } from './palette';
@@ -166,6 +166,8 @@ async function runAudit(fit: boolean) {
     renderMessages(doc.warnings, doc.qa, null);
     renderLegend();
     fillReportScopes();
+    ($('x-hotspots-csv') as HTMLButtonElement).disabled = typeof doc['hotspots_csv'] !== 'string';
+    $('maptip').textContent = 'Click a home or a catchment to see its routes.';
     reselect();
     const total = performance.now() - t0;
     audits++;
@@ -370,6 +372,7 @@ syncPrivacy();
 $('x-routes').addEventListener('click', () => view && saveRoutes(view, layerJson('catchments'), includeHomes.checked));
 $('x-hotspots').addEventListener('click', () => view && saveHotspots(view));
 $('x-catchments').addEventListener('click', () => view && saveCatchments(view));
+$('x-hotspots-csv').addEventListener('click', () => view && saveHotspotsCsv(view));
 homesBtn.addEventListener('click', () => view && includeHomes.checked && saveHomes(view));
 $('x-report').addEventListener('click', () => printReport());
 
