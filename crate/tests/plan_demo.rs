@@ -50,16 +50,24 @@ fn the_planner_reroutes_exactly_as_the_audit_does() {
         let members: Vec<usize> = (0..out.homes.len())
             .filter(|&i| out.homes[i].assignment.school == Some(s))
             .collect();
+        let safe_cost = catchwalk::pipeline::safe_costs(
+            g,
+            &out.layers.streets,
+            &out.config,
+            out.layers.schools[s].students,
+        );
         let ctx = RouteContext {
             graph: g,
             streets: &out.layers.streets,
             config: &out.config,
             cost: &cost,
+            safe_cost: &safe_cost,
         };
         let again = reroute_school(&ctx, &out.school_att[s], &members, &out.homes, None);
         assert_eq!(again.len(), members.len());
         for (i, h, _) in again {
             assert_eq!(h.recommended, out.homes[i].recommended, "home {i}");
+            assert_eq!(h.safe, out.homes[i].safe, "home {i}");
             assert_eq!(h.over_detour_cap, out.homes[i].over_detour_cap, "home {i}");
         }
     }
