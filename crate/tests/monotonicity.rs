@@ -8,10 +8,13 @@
 //! - the recommended route's risk is never above the shortest route's;
 //! - the detour cap holds.
 
+mod common;
+use common::demo_town;
+
 use catchwalk::config::Config;
 use catchwalk::input::{
-    Control, ControlScope, CrossingPoint, Device, Home, Layers, RawLayers, RoadClass, School,
-    SideWalk, SpeedSource, Street, Students, TimeWindow,
+    Control, ControlScope, CrossingPoint, Device, Home, Layers, RoadClass, School, SideWalk,
+    SpeedSource, Street, Students, TimeWindow,
 };
 use catchwalk::network::{PedEdgeKind, PedGraph};
 use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
@@ -380,23 +383,6 @@ proptest! {
 }
 
 // --- the demo town -------------------------------------------------------------------------
-
-fn demo_town() -> Layers {
-    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/../sample-maps/demo-town/");
-    let read = |f: &str| std::fs::read_to_string(format!("{dir}{f}")).unwrap_or_default();
-    let raw = RawLayers {
-        streets: read("streets.geojson"),
-        crossings: Some(read("crossings.geojson")),
-        schools: read("schools.geojson"),
-        homes: read("homes.geojson"),
-        catchments: Some(read("catchments.geojson")),
-        ..RawLayers::default()
-    };
-    match catchwalk::input::read_layers(&raw) {
-        Ok((layers, _)) => layers,
-        Err(e) => panic!("demo town: {e}"),
-    }
-}
 
 #[test]
 fn demo_town_monotonicity() {

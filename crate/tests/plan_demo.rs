@@ -2,29 +2,15 @@
 //! routes, its choices raise the safe-route share by exactly the children it reports, and a
 //! street-level choice, applied to the layers and audited from scratch, gains what it said.
 
+mod common;
+use common::demo_town;
+
 use catchwalk::config::Config;
-use catchwalk::input::{Layers, RawLayers};
+use catchwalk::input::Layers;
 use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
 use catchwalk::score::plan::{
     plan_upgrades, recommended_costs, reroute_school, RouteContext, Upgrade,
 };
-
-fn demo_town() -> Layers {
-    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/../sample-maps/demo-town/");
-    let read = |f: &str| std::fs::read_to_string(format!("{dir}{f}")).unwrap_or_default();
-    let raw = RawLayers {
-        streets: read("streets.geojson"),
-        crossings: Some(read("crossings.geojson")),
-        schools: read("schools.geojson"),
-        homes: read("homes.geojson"),
-        catchments: Some(read("catchments.geojson")),
-        ..RawLayers::default()
-    };
-    match catchwalk::input::read_layers(&raw) {
-        Ok((layers, _)) => layers,
-        Err(e) => panic!("demo town: {e}"),
-    }
-}
 
 fn audit(layers: &Layers) -> AuditOutput {
     match audit_layers(layers.clone(), &Config::default(), &mut Silent) {
