@@ -4,9 +4,9 @@
 use crate::audit::{audit_route, RouteAudit};
 use crate::config::Config;
 use crate::error::{Error, Result, Warning};
-use crate::input::{read_layers, Layers, RawLayers};
+use crate::input::{read_layers, Layers, RawLayers, Street, Students};
 use crate::network::qa::{QaItem, QaKind};
-use crate::network::{build_network, Attachment, Network};
+use crate::network::{build_network, Attachment, Network, PedEdge, PedGraph};
 use crate::risk::edge_risk_points;
 use crate::route::assign::{assign_schools, Assignment};
 use crate::route::path::{entrance_sources, route_to_school};
@@ -61,6 +61,9 @@ pub struct HomeResult {
     pub attachment: Option<Attachment>,
     pub shortest: Option<AuditedRoute>,
     pub recommended: Option<AuditedRoute>,
+    /// The shortest route that no rule of the rule set flags (no flagged crossing, no flagged
+    /// stretch), if one exists: the home has a safe route when it lies within the walk zone.
+    pub safe: Option<AuditedRoute>,
     /// The recommended route would exceed the detour cap, so the shortest stands.
     pub over_detour_cap: bool,
 }
@@ -135,7 +138,25 @@ pub fn quantize_cost(x: f64) -> f64 {
     (x * SCALE).round() / SCALE
 }
 
-/// Edge costs for a route kind: walked metres, plus risk in metres for the recommended route.
+/// One edge's cost for the shortest (walked metres) or recommended (walked metres plus risk
+/// in metres) route. The safe route's costs are [`safe_costs`].
+pub fn edge_cost(
+    g: &PedGraph,
+    e: &PedEdge,
+    streets: &[Street],
+    config: &Config,
+    kind: RouteKind,
+) -> f64 {
+    quantize_cost(match kind {
+        RouteKind::Shortest | RouteKind::Safe => e.length_m,
+        RouteKind::Recommended => {
+            e.length_m
+                + config.route.metres_per_risk_point * edge_risk_points(g, e, streets, &config.risk)
+        }
+    })
+}
+
+/// Edge costs for the shortest or recommended route, indexed like `graph.edges`.
 pub fn edge_costs(
     network: &Network,
     layers: &Layers,
@@ -145,13 +166,109 @@ pub fn edge_costs(
     let g = &network.graph;
     g.edges
         .iter()
-        .map(|e| match kind {
-            RouteKind::Shortest => quantize_cost(e.length_m),
-            RouteKind::Recommended => quantize_cost(
-                e.length_m
-                    + config.route.metres_per_risk_point
-                        * edge_risk_points(g, e, &layers.streets, &config.risk),
-            ),
+        .map(|e| edge_cost(g, e, &layers.streets, config, kind))
+        .collect()
+}
+
+/// Recommended-route edge costs of a graph.
+pub fn recommended_costs(graph: &PedGraph, streets: &[Street], config: &Config) -> Vec<f64> {
+    graph
+        .edges
+        .iter()
+        .map(|e| edge_cost(graph, e, streets, config, RouteKind::Recommended))
+        .collect()
+}
+
+/// Safe-route edge costs: walked metres, impassable where a rule of the rule set flags the
+/// edge for these students.
+pub fn safe_costs(
+    graph: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+    students: Students,
+) -> Vec<f64> {
+    graph
+        .edges
+        .iter()
+        .map(|e| safe_edge_cost(graph, e, streets, config, students))
+        .collect()
+}
+
+/// One edge's safe-route cost.
+pub fn safe_edge_cost(
+    g: &PedGraph,
+    e: &PedEdge,
+    streets: &[Street],
+    config: &Config,
+    students: Students,
+) -> f64 {
+    if config
+        .score
+        .rules
+        .flags_edge(g, e, streets, &config.risk, students)
+    {
+        f64::INFINITY
+    } else {
+        quantize_cost(e.length_m)
+    }
+}
+
+/// A route with its audit and risk.
+pub fn audited_route(
+    g: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+    kind: RouteKind,
+    route: Route,
+) -> AuditedRoute {
+    AuditedRoute {
+        kind,
+        audit: audit_route(g, streets, &route),
+        risk: route_risk(g, streets, config, &route),
+        route,
+    }
+}
+
+/// Routes `members` (home indices with attachments in `home_att`) to one school in a tree
+/// grown with `cost`; homes sharing a snap point share the route. Indexed like `members`.
+#[allow(clippy::too_many_arguments)]
+pub fn route_members(
+    g: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+    kind: RouteKind,
+    cost: &[f64],
+    entrances: &[Attachment],
+    members: &[usize],
+    home_att: &[Option<Attachment>],
+    tree: &mut Tree,
+) -> Vec<Option<AuditedRoute>> {
+    let mut targets = Vec::with_capacity(members.len() * 2);
+    for att in members
+        .iter()
+        .filter_map(|&i| home_att.get(i).copied().flatten())
+    {
+        if let Some(e) = g.edges.get(att.edge as usize) {
+            targets.push(e.a);
+            targets.push(e.b);
+        }
+    }
+    if entrances.is_empty() || targets.is_empty() {
+        return vec![None; members.len()];
+    }
+    tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
+    let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
+    members
+        .iter()
+        .map(|&i| {
+            let att = home_att.get(i).copied().flatten()?;
+            shared
+                .entry((att.edge, att.offset_m.to_bits()))
+                .or_insert_with(|| {
+                    route_to_school(g, tree, cost, &att, entrances)
+                        .map(|r| audited_route(g, streets, config, kind, r))
+                })
+                .clone()
         })
         .collect()
 }
@@ -188,12 +305,14 @@ pub fn audit_layers(
             attachment: *att,
             shortest: None,
             recommended: None,
+            safe: None,
             over_detour_cap: false,
         })
         .collect();
 
     let g = &network.graph;
     let mut tree = Tree::for_graph(g);
+    let mut safe_cost_by_students: HashMap<Students, Vec<f64>> = HashMap::new();
     let n_schools = layers.schools.len();
     for (s, entrances) in school_att.iter().enumerate() {
         if !progress.report(Stage::Routing, s, n_schools) {
@@ -205,42 +324,31 @@ pub fn audit_layers(
         if members.is_empty() || entrances.is_empty() {
             continue;
         }
-        let mut targets = Vec::with_capacity(members.len() * 2);
-        for &i in &members {
-            let e = &g.edges[homes[i].attachment.map(|a| a.edge).unwrap_or(0) as usize];
-            targets.push(e.a);
-            targets.push(e.b);
-        }
+        let students = layers.schools[s].students;
+        let safe_cost = safe_cost_by_students
+            .entry(students)
+            .or_insert_with(|| safe_costs(g, &layers.streets, config, students));
         for (kind, cost) in [
             (RouteKind::Shortest, &walk_cost),
             (RouteKind::Recommended, &rec_cost),
+            (RouteKind::Safe, &*safe_cost),
         ] {
-            tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
-            // Homes sharing a snap point share the route.
-            let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
-            for &i in &members {
-                let Some(att) = homes[i].attachment else {
-                    continue;
-                };
-                let key = (att.edge, att.offset_m.to_bits());
-                let routed = shared
-                    .entry(key)
-                    .or_insert_with(|| {
-                        route_to_school(g, &tree, cost, &att, entrances).map(|route| {
-                            let audit = audit_route(g, &layers.streets, &route);
-                            let risk = route_risk(&network, &layers, config, &route);
-                            AuditedRoute {
-                                kind,
-                                route,
-                                audit,
-                                risk,
-                            }
-                        })
-                    })
-                    .clone();
+            let routes = route_members(
+                g,
+                &layers.streets,
+                config,
+                kind,
+                cost,
+                entrances,
+                &members,
+                &home_att,
+                &mut tree,
+            );
+            for (&i, r) in members.iter().zip(routes) {
                 match kind {
-                    RouteKind::Shortest => homes[i].shortest = routed,
-                    RouteKind::Recommended => homes[i].recommended = routed,
+                    RouteKind::Shortest => homes[i].shortest = r,
+                    RouteKind::Recommended => homes[i].recommended = r,
+                    RouteKind::Safe => homes[i].safe = r,
                 }
             }
         }
@@ -303,15 +411,14 @@ pub fn audit_layers(
 }
 
 /// Risk points of one trip along a route (partial edges pro rata).
-pub fn route_risk(network: &Network, layers: &Layers, config: &Config, route: &Route) -> f64 {
-    let g = &network.graph;
+pub fn route_risk(g: &PedGraph, streets: &[Street], config: &Config, route: &Route) -> f64 {
     route
         .steps
         .iter()
-        .map(|s| {
-            let e = &g.edges[s.edge as usize];
+        .filter_map(|s| g.edges.get(s.edge as usize).map(|e| (s, e)))
+        .map(|(s, e)| {
             let share = if e.is_crossing() { 1.0 } else { s.share() };
-            share * edge_risk_points(g, e, &layers.streets, &config.risk)
+            share * edge_risk_points(g, e, streets, &config.risk)
         })
         .sum()
 }

@@ -194,6 +194,21 @@ fn audited(l: &Layers, g: &PedGraph, c: &Config, kind: RouteKind, r: Route) -> A
     }
 }
 
+/// The route as a safe route, if no rule flags any of its edges (by hand: the rule-clean
+/// route is the safe route of this fixture).
+fn safe_of(l: &Layers, g: &PedGraph, c: &Config, r: &Route) -> Option<AuditedRoute> {
+    let clean = r.steps.iter().all(|s| {
+        !c.score.rules.flags_edge(
+            g,
+            &g.edges[s.edge as usize],
+            &l.streets,
+            &c.risk,
+            Students::Elementary,
+        )
+    });
+    clean.then(|| audited(l, g, c, RouteKind::Safe, r.clone()))
+}
+
 fn close(a: f64, b: f64) -> bool {
     (a - b).abs() < 1e-5
 }
@@ -220,6 +235,7 @@ fn every_figure_of_a_three_home_catchment_matches_the_hand_computation() {
             RouteKind::Recommended,
             rec.clone(),
         )),
+        safe: safe_of(&layers, &g, &c, rec),
         over_detour_cap: false,
     };
     let homes = vec![home(&r1, &r1), home(&r2s, &r2r), home(&r3, &r3)];
@@ -345,6 +361,7 @@ fn under_the_pennsylvania_rules_only_table_i_decides_the_crossing() {
             attachment: None,
             shortest: Some(audited(&l, &g, &c, RouteKind::Shortest, r.clone())),
             recommended: Some(audited(&l, &g, &c, RouteKind::Recommended, r.clone())),
+            safe: safe_of(&l, &g, &c, &r),
             over_detour_cap: false,
         };
         score_audit(&l, &g, &[h], &c).homes[0].clone()

@@ -2,29 +2,15 @@
 //! routes, its choices raise the safe-route share by exactly the children it reports, and a
 //! street-level choice, applied to the layers and audited from scratch, gains what it said.
 
+mod common;
+use common::demo_town;
+
 use catchwalk::config::Config;
-use catchwalk::input::{Layers, RawLayers};
+use catchwalk::input::Layers;
 use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
 use catchwalk::score::plan::{
     plan_upgrades, recommended_costs, reroute_school, RouteContext, Upgrade,
 };
-
-fn demo_town() -> Layers {
-    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/../sample-maps/demo-town/");
-    let read = |f: &str| std::fs::read_to_string(format!("{dir}{f}")).unwrap_or_default();
-    let raw = RawLayers {
-        streets: read("streets.geojson"),
-        crossings: Some(read("crossings.geojson")),
-        schools: read("schools.geojson"),
-        homes: read("homes.geojson"),
-        catchments: Some(read("catchments.geojson")),
-        ..RawLayers::default()
-    };
-    match catchwalk::input::read_layers(&raw) {
-        Ok((layers, _)) => layers,
-        Err(e) => panic!("demo town: {e}"),
-    }
-}
 
 fn audit(layers: &Layers) -> AuditOutput {
     match audit_layers(layers.clone(), &Config::default(), &mut Silent) {
@@ -50,16 +36,24 @@ fn the_planner_reroutes_exactly_as_the_audit_does() {
         let members: Vec<usize> = (0..out.homes.len())
             .filter(|&i| out.homes[i].assignment.school == Some(s))
             .collect();
+        let safe_cost = catchwalk::pipeline::safe_costs(
+            g,
+            &out.layers.streets,
+            &out.config,
+            out.layers.schools[s].students,
+        );
         let ctx = RouteContext {
             graph: g,
             streets: &out.layers.streets,
             config: &out.config,
             cost: &cost,
+            safe_cost: &safe_cost,
         };
         let again = reroute_school(&ctx, &out.school_att[s], &members, &out.homes, None);
         assert_eq!(again.len(), members.len());
         for (i, h, _) in again {
             assert_eq!(h.recommended, out.homes[i].recommended, "home {i}");
+            assert_eq!(h.safe, out.homes[i].safe, "home {i}");
             assert_eq!(h.over_detour_cap, out.homes[i].over_detour_cap, "home {i}");
         }
     }

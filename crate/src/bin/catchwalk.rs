@@ -14,6 +14,15 @@ use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use std::time::Instant;
 
+/// Prints a line to stdout; a closed pipe (`catchwalk ... | head`) ends the output quietly
+/// instead of panicking.
+macro_rules! say {
+    ($($t:tt)*) => {{
+        use std::io::Write;
+        let _ = writeln!(std::io::stdout(), $($t)*);
+    }};
+}
+
 /// Audits children's walking routes to school: which children live within walking distance,
 /// the route they would walk, what it makes them cross, and how risky that is.
 ///
@@ -229,14 +238,14 @@ fn run(cli: Cli) -> Result<(), String> {
             for w in &result.warnings {
                 eprintln!("warning: {w}");
             }
-            println!(
+            say!(
                 "audited {} homes for {} schools in {:.0} ms; wrote {}",
                 result.homes.len(),
                 result.layers.schools.len(),
                 result.timings.total_ms,
                 out.display()
             );
-            println!("{}", catchwalk::CAUTION);
+            say!("{}", catchwalk::CAUTION);
             Ok(())
         }
         Command::Plan {
@@ -253,9 +262,9 @@ fn run(cli: Cli) -> Result<(), String> {
                 .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
             write(&out, "plan.json", &json(&export::plan_json(&result, &plan)))?;
             write(&out, "plan.csv", &export::plan_csv(&plan))?;
-            println!("rank upgrade          children_gained  street");
+            say!("rank upgrade          children_gained  street");
             for s in &plan.steps {
-                println!(
+                say!(
                     "{:>4} {:<16} {:>15}  {} (edge {})",
                     s.rank,
                     s.upgrade.as_str(),
@@ -271,7 +280,7 @@ fn run(cli: Cli) -> Result<(), String> {
                     "-".into()
                 }
             };
-            println!(
+            say!(
                 "safe-route share: {} before, {} after ({} of {} routed children safe); wrote {}",
                 share(plan.safe_children_before),
                 share(plan.safe_children_after),
@@ -279,7 +288,7 @@ fn run(cli: Cli) -> Result<(), String> {
                 plan.children_routed,
                 out.display()
             );
-            println!("{}", catchwalk::CAUTION);
+            say!("{}", catchwalk::CAUTION);
             Ok(())
         }
         Command::Check { layers, out } => {
@@ -293,7 +302,7 @@ fn run(cli: Cli) -> Result<(), String> {
             let mut s =
                 export::network_summary(&result.layers, &result.network.graph, &result.network.qa);
             s["warnings"] = serde_json::json!(result.warnings.len());
-            println!("{}", json(&s));
+            say!("{}", json(&s));
             if let Some(out) = out {
                 std::fs::create_dir_all(&out)
                     .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
@@ -315,13 +324,20 @@ fn print_balance(r: &AuditOutput) {
             .unwrap_or("-".into())
     };
     let num = |x: Option<f64>| x.map(|v| format!("{v:.2}")).unwrap_or("-".into());
-    println!(
+    say!(
         "{:<12} {:>8} {:>9} {:>6} {:>5} {:>10} {:>9} {:>8}  quadrant",
-        "school", "children", "walk_zone", "safe", "gap", "risk/trip", "p90_risk", "act_min"
+        "school",
+        "children",
+        "walk_zone",
+        "safe",
+        "gap",
+        "risk/trip",
+        "p90_risk",
+        "act_min"
     );
     for c in &r.scores.catchments {
         let id = r.layers.schools.get(c.school).map_or("", |s| s.id.as_str());
-        println!(
+        say!(
             "{:<12} {:>8} {:>9} {:>6} {:>5} {:>10} {:>9} {:>8}  {}",
             id,
             c.children,
@@ -334,9 +350,9 @@ fn print_balance(r: &AuditOutput) {
             c.quadrant.as_str()
         );
     }
-    println!("top hotspots (children x risk per trip):");
+    say!("top hotspots (children x risk per trip):");
     for h in r.scores.hotspots.iter().take(10) {
-        println!(
+        say!(
             "{:>3}. {:<8} {:<24} {:<16} {:>3.0} km/h {} lanes  children {:>4}  risk {:.2}  product {:.2}",
             h.rank, h.kind, h.street, h.control, h.speed_kmh, h.lanes, h.children, h.risk, h.product
         );

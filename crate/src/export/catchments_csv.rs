@@ -8,12 +8,13 @@ use crate::score::plan::Plan;
 use serde_json::{json, Value};
 
 /// Score columns appended to `homes.csv`.
-pub const HOME_SCORE_COLUMNS: [&str; 10] = [
+pub const HOME_SCORE_COLUMNS: [&str; 11] = [
     "active_minutes",
     "guideline_share",
     "energy_kcal",
     "in_walk_zone",
     "safe_route",
+    "safe_network_m",
     "unsafe_reason",
     "hazardous",
     "hazard_reason",
@@ -30,6 +31,9 @@ pub fn home_score_values(s: Option<&HomeScore>) -> Vec<String> {
             round2(s.energy_kcal).to_string(),
             s.in_walk_zone.to_string(),
             s.safe_route.to_string(),
+            s.safe_network_m
+                .map(|m| round2(m).to_string())
+                .unwrap_or_default(),
             s.unsafe_reason.clone(),
             s.hazardous.to_string(),
             s.hazard_reason.clone(),
@@ -41,7 +45,7 @@ pub fn home_score_values(s: Option<&HomeScore>) -> Vec<String> {
         ],
         Some(s) => {
             let mut v = vec![String::new(); HOME_SCORE_COLUMNS.len()];
-            if let Some(x) = v.get_mut(5) {
+            if let Some(x) = v.get_mut(6) {
                 *x = s.unsafe_reason.clone();
             }
             v

@@ -57,6 +57,10 @@ fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: boo
     props.insert("over_detour_cap".into(), json!(over_cap));
     if let (crate::route::RouteKind::Recommended, Some(sc)) = (r.kind, out.scores.homes.get(home)) {
         props.insert("safe_route".into(), json!(sc.safe_route));
+        props.insert(
+            "safe_network_m".into(),
+            json!(sc.safe_network_m.map(round2)),
+        );
         props.insert("unsafe_reason".into(), json!(sc.unsafe_reason));
         props.insert("hazardous".into(), json!(sc.hazardous));
         props.insert("hazard_reason".into(), json!(sc.hazard_reason));
@@ -68,7 +72,8 @@ fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: boo
     })
 }
 
-/// One LineString per home and route kind, with the route's figures. Personal data: homes
+/// One LineString per home and route kind (shortest, recommended, and the safe route where
+/// one exists), with the route's figures. Personal data: homes
 /// are individual here, so this export stays on the planner's machine.
 pub fn routes_geojson(out: &AuditOutput) -> Value {
     let mut features = Vec::new();
@@ -78,6 +83,9 @@ pub fn routes_geojson(out: &AuditOutput) -> Value {
         }
         if let Some(r) = &h.recommended {
             features.push(route_feature(out, i, r, h.over_detour_cap));
+        }
+        if let Some(r) = &h.safe {
+            features.push(route_feature(out, i, r, false));
         }
     }
     collection(features)

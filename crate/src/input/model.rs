@@ -169,7 +169,7 @@ pub struct CrossingPoint {
 }
 
 /// Which rows of an age-banded table apply (walking-route rules differ by age).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Default, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Students {
     #[default]

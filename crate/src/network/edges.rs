@@ -81,33 +81,36 @@ pub(crate) fn build_edges(inp: &EdgeInput) -> Vec<PedEdge> {
         let none = JunctionControl::default();
         let ctl = inp.controls.get(&j32).unwrap_or(&none);
         let midblock = inp.midblock.get(j).copied().unwrap_or(false);
-        let street_of = |k: usize| {
-            legs.get(k)
-                .and_then(|l| inp.segments.get(l.segment as usize))
-                .and_then(|s| inp.streets.get(s.street))
-        };
         let leg_key = |k: usize| {
             legs.get(k)
                 .map(|l| (l.segment, l.end))
                 .unwrap_or((0, End::From))
         };
         if let [r0, r1] = roads[..] {
-            // Both road legs of a two-leg junction (a mid-block crossing, a bend) are crossed
-            // at the same spot: one crossing edge, of the faster (then wider) street, with the
-            // strongest control of either leg.
-            let pick = |k: usize| {
-                street_of(k)
-                    .map(|s| (s.speed_kmh, crossing_width_m(s, inp.lane_width_m)))
-                    .unwrap_or((0.0, 0.0))
-            };
-            let (p0, p1) = (pick(r0), pick(r1));
-            let k = if p1.0 > p0.0 || (p1.0 == p0.0 && p1.1 > p0.1) {
-                r1
-            } else {
-                r0
-            };
+            // A two-leg junction (a mid-block crossing, a bend, one street turning into
+            // another) is crossed at one spot, with the strongest control of either leg. When
+            // both legs are the same street, one crossing edge; when they are different
+            // streets, a child may cross just on either side, so one crossing of each.
             let control = strongest(&ctl.of_leg(leg_key(r0)), &ctl.of_leg(leg_key(r1)));
-            push_crossing(&mut edges, inp, j32, k as u32, legs, control, midblock);
+            let same_street = match (legs.get(r0), legs.get(r1)) {
+                (Some(l0), Some(l1)) => {
+                    inp.segments.get(l0.segment as usize).map(|s| s.street)
+                        == inp.segments.get(l1.segment as usize).map(|s| s.street)
+                }
+                _ => true,
+            };
+            push_crossing(
+                &mut edges,
+                inp,
+                j32,
+                r0 as u32,
+                legs,
+                control.clone(),
+                midblock,
+            );
+            if !same_street {
+                push_crossing(&mut edges, inp, j32, r1 as u32, legs, control, midblock);
+            }
             continue;
         }
         for &k in &roads {

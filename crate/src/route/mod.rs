@@ -16,6 +16,8 @@ pub enum RouteKind {
     Shortest,
     /// Minimum generalised cost (length + risk in metres), within the detour cap.
     Recommended,
+    /// The shortest route that no rule of the rule set flags, if any: the safe-route test.
+    Safe,
 }
 
 impl RouteKind {
@@ -23,6 +25,7 @@ impl RouteKind {
         match self {
             RouteKind::Shortest => "shortest",
             RouteKind::Recommended => "recommended",
+            RouteKind::Safe => "safe",
         }
     }
 }

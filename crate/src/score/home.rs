@@ -59,8 +59,10 @@ pub struct HomeScore {
     pub in_walk_zone: bool,
     /// No rule fires on the recommended route.
     pub route_ok: bool,
-    /// In the walk zone and `route_ok`.
+    /// A route that no rule flags exists (the safe route) and lies inside the walk zone.
     pub safe_route: bool,
+    /// Network length of that safe route, if one exists at any length.
+    pub safe_network_m: Option<f64>,
     pub unsafe_reason: String,
     pub hazardous: bool,
     pub hazard_reason: String,
@@ -199,6 +201,7 @@ pub fn longest_wait_s(route: &Route, graph: &PedGraph, streets: &[Street], confi
 pub fn score_home(
     shortest: Option<&AuditedRoute>,
     recommended: Option<&AuditedRoute>,
+    safe: Option<&AuditedRoute>,
     students: Students,
     graph: &PedGraph,
     streets: &[Street],
@@ -222,15 +225,36 @@ pub fn score_home(
         config,
     );
     let route_ok = findings.is_empty();
+    let safe_network_m = safe.map(|r| r.audit.network_m);
+    let safe_route = safe_network_m.is_some_and(|m| benefit::in_walk_zone(m, b));
+    let first = findings.first().map(Finding::line);
     let unsafe_reason = if !in_zone {
         format!(
             "outside the walk zone: {:.0} m > {:.0} m",
             sh.audit.network_m, b.walk_zone_m
         )
+    } else if safe_route {
+        String::new()
+    } else if let Some(m) = safe_network_m {
+        let mut why = format!(
+            "the only routes that avoid every flagged crossing and stretch are {m:.0} m, beyond the {:.0} m walk zone",
+            b.walk_zone_m
+        );
+        if let Some(f) = &first {
+            why.push_str("; on the recommended route: ");
+            why.push_str(f);
+        }
+        why
     } else {
-        findings.first().map(Finding::line).unwrap_or_default()
+        first.unwrap_or_else(|| {
+            "no route to the school avoids every flagged crossing and stretch".into()
+        })
     };
-    let hazard = findings.iter().find(|f| f.verdict == Verdict::Hazardous);
+    // A child with a safe route has a walk that is not hazardous.
+    let hazard = findings
+        .iter()
+        .find(|f| f.verdict == Verdict::Hazardous)
+        .filter(|_| !safe_route);
     let wait = longest_wait_s(&rec.route, graph, streets, config);
     HomeScore {
         routed: true,
@@ -240,7 +264,8 @@ pub fn score_home(
         energy_kcal: benefit::energy_kcal_per_day(active, b),
         in_walk_zone: in_zone,
         route_ok,
-        safe_route: in_zone && route_ok,
+        safe_route,
+        safe_network_m,
         unsafe_reason,
         hazardous: hazard.is_some(),
         hazard_reason: hazard.map(Finding::line).unwrap_or_default(),
@@ -270,6 +295,7 @@ pub fn score_homes(
             score_home(
                 h.shortest.as_ref(),
                 h.recommended.as_ref(),
+                h.safe.as_ref(),
                 students,
                 graph,
                 streets,

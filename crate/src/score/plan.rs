@@ -8,12 +8,10 @@
 //! larger cut in risk). Upgrades that gain no child are still taken while they cut risk.
 
 use super::home::{route_findings, score_home, street_label, HomeScore};
-use crate::audit::audit_route;
 use crate::config::Config;
-use crate::input::{Device, SideWalk, Street};
+use crate::input::{Device, SideWalk, Street, Students};
 use crate::network::{Attachment, PedEdgeKind, PedGraph};
 use crate::pipeline::{AuditOutput, AuditedRoute, HomeResult};
-use crate::risk::edge_risk_points;
 use crate::route::path::{entrance_sources, route_to_school};
 use crate::route::tree::Tree;
 use crate::route::{Route, RouteKind};
@@ -179,31 +177,7 @@ fn revert(undo: Vec<Undo>, graph: &mut PedGraph, streets: &mut [Street]) {
     }
 }
 
-/// Recommended-route edge costs: length plus risk in metres.
-pub fn recommended_costs(graph: &PedGraph, streets: &[Street], config: &Config) -> Vec<f64> {
-    graph
-        .edges
-        .iter()
-        .map(|e| {
-            e.length_m
-                + config.route.metres_per_risk_point
-                    * edge_risk_points(graph, e, streets, &config.risk)
-        })
-        .collect()
-}
-
-/// Risk points of one trip along a route (partial edges pro rata).
-pub fn route_risk(graph: &PedGraph, streets: &[Street], config: &Config, route: &Route) -> f64 {
-    route
-        .steps
-        .iter()
-        .filter_map(|s| graph.edges.get(s.edge as usize).map(|e| (s, e)))
-        .map(|(s, e)| {
-            let share = if e.is_crossing() { 1.0 } else { s.share() };
-            share * edge_risk_points(graph, e, streets, &config.risk)
-        })
-        .sum()
-}
+pub use crate::pipeline::{recommended_costs, route_risk};
 
 fn audited(
     graph: &PedGraph,
@@ -212,21 +186,18 @@ fn audited(
     kind: RouteKind,
     route: Route,
 ) -> AuditedRoute {
-    AuditedRoute {
-        kind,
-        audit: audit_route(graph, streets, &route),
-        risk: route_risk(graph, streets, config, &route),
-        route,
-    }
+    crate::pipeline::audited_route(graph, streets, config, kind, route)
 }
 
-/// The network a re-routing runs on: graph, streets, config and recommended-route costs.
+/// The network a re-routing runs on: graph, streets, config, recommended-route costs and
+/// the safe-route costs for the school's students.
 #[derive(Clone, Copy)]
 pub struct RouteContext<'a> {
     pub graph: &'a PedGraph,
     pub streets: &'a [Street],
     pub config: &'a Config,
     pub cost: &'a [f64],
+    pub safe_cost: &'a [f64],
 }
 
 /// Re-routes the recommended routes of one school's `members` on a (modified) graph, as the
@@ -248,6 +219,7 @@ pub fn reroute_school(
         streets,
         config,
         cost,
+        safe_cost,
     } = *ctx;
     let touches = |r: &Route| changed.is_none_or(|c| r.steps.iter().any(|s| c.contains(&s.edge)));
     let mut out = Vec::with_capacity(members.len());
@@ -318,6 +290,28 @@ pub fn reroute_school(
         same &= nh.recommended.is_some() == h.recommended.is_some();
         out.push((i, nh, same));
     }
+    // Safe routes: one more tree on the safe-route costs; a home whose safe route changes is
+    // not unchanged.
+    let home_att: Vec<Option<Attachment>> = homes.iter().map(|h| h.attachment).collect();
+    let safe = crate::pipeline::route_members(
+        graph,
+        streets,
+        config,
+        RouteKind::Safe,
+        safe_cost,
+        entrances,
+        members,
+        &home_att,
+        &mut tree,
+    );
+    for ((i, nh, same), r) in out.iter_mut().zip(safe) {
+        let old = homes
+            .get(*i)
+            .and_then(|h| h.safe.as_ref())
+            .map(|r| &r.route);
+        *same &= old == r.as_ref().map(|r| &r.route);
+        nh.safe = r;
+    }
     out
 }
 
@@ -333,6 +327,8 @@ struct State<'a> {
     members: Vec<Vec<usize>>,
     /// Recommended-route edge costs of the current graph.
     cost: Vec<f64>,
+    /// Safe-route edge costs of the current graph, per students' age band.
+    safe_cost: HashMap<Students, Vec<f64>>,
 }
 
 impl State<'_> {
@@ -402,16 +398,47 @@ impl State<'_> {
         for &k in changed {
             if let (Some(c), Some(e)) = (cost.get_mut(k as usize), self.graph.edges.get(k as usize))
             {
-                *c = e.length_m
-                    + cfg.route.metres_per_risk_point
-                        * edge_risk_points(&self.graph, e, &self.streets, &cfg.risk);
+                *c = crate::pipeline::edge_cost(
+                    &self.graph,
+                    e,
+                    &self.streets,
+                    cfg,
+                    RouteKind::Recommended,
+                );
             }
         }
         cost
     }
+    /// Safe-route costs after a change to `changed` edges.
+    fn safe_costs_with(&self, changed: &BTreeSet<u32>) -> HashMap<Students, Vec<f64>> {
+        let cfg = &self.out.config;
+        let mut all = self.safe_cost.clone();
+        for (students, cost) in all.iter_mut() {
+            for &k in changed {
+                if let (Some(c), Some(e)) =
+                    (cost.get_mut(k as usize), self.graph.edges.get(k as usize))
+                {
+                    *c = crate::pipeline::safe_edge_cost(
+                        &self.graph,
+                        e,
+                        &self.streets,
+                        cfg,
+                        *students,
+                    );
+                }
+            }
+        }
+        all
+    }
     /// Re-routes `schools` on the current graph with edge costs `cost` after `changed`
     /// edges changed: new home results and scores (unchanged homes keep their scores).
-    fn evaluate(&self, schools: &[usize], cost: &[f64], changed: &BTreeSet<u32>) -> Evaluation {
+    fn evaluate(
+        &self,
+        schools: &[usize],
+        cost: &[f64],
+        safe_cost: &HashMap<Students, Vec<f64>>,
+        changed: &BTreeSet<u32>,
+    ) -> Evaluation {
         let cfg = &self.out.config;
         let mut out = Vec::new();
         for &s in schools {
@@ -422,11 +449,13 @@ impl State<'_> {
                 .map(|v| v.as_slice())
                 .unwrap_or(&[]);
             let members = self.members.get(s).map(|v| v.as_slice()).unwrap_or(&[]);
+            let empty = Vec::new();
             let ctx = RouteContext {
                 graph: &self.graph,
                 streets: &self.streets,
                 config: cfg,
                 cost,
+                safe_cost: safe_cost.get(&self.students(s)).unwrap_or(&empty),
             };
             let routed = reroute_school(&ctx, entrances, members, &self.homes, Some(changed));
             for (i, nh, same) in routed {
@@ -435,6 +464,7 @@ impl State<'_> {
                     _ => score_home(
                         nh.shortest.as_ref(),
                         nh.recommended.as_ref(),
+                        nh.safe.as_ref(),
                         self.students(s),
                         &self.graph,
                         &self.streets,
@@ -569,6 +599,18 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
         scores: scores.to_vec(),
         members,
         cost: recommended_costs(&out.network.graph, &out.layers.streets, &out.config),
+        safe_cost: [Students::Elementary, Students::Secondary]
+            .into_iter()
+            .map(|st| {
+                let c = crate::pipeline::safe_costs(
+                    &out.network.graph,
+                    &out.layers.streets,
+                    &out.config,
+                    st,
+                );
+                (st, c)
+            })
+            .collect(),
     };
     let before = shares(&st, &st.scores);
     let mut steps = Vec::new();
@@ -585,7 +627,8 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
                 continue;
             }
             let cost = st.costs_with(&changed);
-            let eval = st.evaluate(&schools, &cost, &changed);
+            let safe_cost = st.safe_costs_with(&changed);
+            let eval = st.evaluate(&schools, &cost, &safe_cost, &changed);
             revert(undo, &mut st.graph, &mut st.streets);
             let mut gained = 0.0;
             let mut cut = 0.0;
@@ -607,7 +650,9 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
             break;
         };
         let _ = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
-        st.cost = st.costs_with(&st.changed_edges(up, edge));
+        let changed = st.changed_edges(up, edge);
+        st.cost = st.costs_with(&changed);
+        st.safe_cost = st.safe_costs_with(&changed);
         for (i, nh, sc) in eval {
             if let (Some(h), Some(s)) = (st.homes.get_mut(i), st.scores.get_mut(i)) {
                 *h = nh;

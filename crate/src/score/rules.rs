@@ -365,6 +365,30 @@ pub fn edge_facts(
     }
 }
 
+impl RuleSet {
+    /// Whether any rule flags this edge on its own: a crossing rule that fires on it, or a
+    /// stretch rule it matches (a stretch rule's minimum length is not applied here, so the
+    /// safe-route search avoids every matching side: conservative).
+    pub fn flags_edge(
+        &self,
+        graph: &PedGraph,
+        edge: &PedEdge,
+        streets: &[Street],
+        risk: &RiskConfig,
+        students: Students,
+    ) -> bool {
+        match edge_facts(graph, edge, streets, risk) {
+            Some(EdgeFacts::Crossing(f)) => {
+                self.rules.iter().any(|r| r.fires_on_crossing(&f, students))
+            }
+            Some(EdgeFacts::Stretch(f)) => {
+                self.rules.iter().any(|r| r.matches_stretch(&f, students))
+            }
+            None => false,
+        }
+    }
+}
+
 fn speed_ok(rule: &Rule, speed: f64) -> bool {
     rule.speed_kmh_gt.is_none_or(|x| speed > x) && rule.speed_kmh_ge.is_none_or(|x| speed >= x)
 }
