@@ -247,7 +247,7 @@ function select(kind: 'home' | 'catchment', id: string) {
   if (!view) return;
   if (kind === 'home') {
     const h = view.byId.get(id);
-    const routes = [h?.shortest, h?.recommended].filter((x): x is NonNullable<typeof x> => !!x) as Feature[];
+    const routes = [h?.shortest, h?.recommended, h?.safe].filter((x): x is NonNullable<typeof x> => !!x) as Feature[];
     if (routes.length) map.fit(routes, 17);
   } else {
     const routes = view.homes.filter((h) => h.schoolId === id && h.recommended).map((h) => h.recommended as Feature);
@@ -266,7 +266,7 @@ function reselect() {
     const h = view.byId.get(selected.id);
     if (!h) { host.replaceChildren(el('p', { class: 'muted' }, 'That home is not in this audit.')); return; }
     host.replaceChildren(homePanel(view, h));
-    map.showRoutes([h.shortest, h.recommended].filter((x): x is NonNullable<typeof x> => !!x) as Feature[], h.at);
+    map.showRoutes([h.safe, h.shortest, h.recommended].filter((x): x is NonNullable<typeof x> => !!x) as Feature[], h.at);
     map.setCatchments(view, layerJson('catchments'), null);
   } else {
     const c = view.catchments.find((x) => x.schoolId === selected?.id);
@@ -300,6 +300,7 @@ function renderLegend() {
     el('h4', {}, 'Routes'),
     row(el('span', { class: 'sw line dash', style: `border-color:${ROUTE_STYLE.shortest.color}` }), ROUTE_STYLE.shortest.label),
     row(sw(ROUTE_STYLE.recommended.color, 'sw line thick'), ROUTE_STYLE.recommended.label),
+    row(sw(ROUTE_STYLE.safe.color, 'sw line wide'), ROUTE_STYLE.safe.label),
     el('h4', {}, 'Catchments by deficit'),
     el('div', { class: 'ramp' }, ...[0, 0.25, 0.5, 1].map((d) => el('span', { style: `background:${deficitColor(d)}` }, `${d * 100}%`))),
     row(el('span', { class: 'sw ring', style: `border-color:${QA_COLOR}` }), 'network check (see list)'),

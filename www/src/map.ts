@@ -129,6 +129,14 @@ export class AuditMap {
       paint: { 'line-color': ROUTE_STYLE.shortest.color, 'line-width': 3, 'line-dasharray': [1.5, 1.2], 'line-opacity': 0.85 },
     });
     m.addLayer({
+      id: 'sel-safe',
+      type: 'line',
+      source: 'sel-routes',
+      filter: ['==', ['get', 'kind'], 'safe'],
+      layout: { 'line-cap': 'round', 'line-join': 'round' },
+      paint: { 'line-color': ROUTE_STYLE.safe.color, 'line-width': 9, 'line-opacity': 0.35 },
+    });
+    m.addLayer({
       id: 'sel-recommended',
       type: 'line',
       source: 'sel-routes',
@@ -332,7 +340,7 @@ export class AuditMap {
 
   /** Hides (or shows again) every layer that places a single home: homes and routes. */
   hideHomes(hide: boolean) {
-    for (const id of ['homes-cluster', 'homes-pt', 'sel-home', 'sel-shortest', 'sel-recommended'])
+    for (const id of ['homes-cluster', 'homes-pt', 'sel-home', 'sel-shortest', 'sel-recommended', 'sel-safe'])
       if (this.map.getLayer(id)) this.map.setLayoutProperty(id, 'visibility', hide ? 'none' : 'visible');
   }
 

@@ -14,6 +14,8 @@ export interface HomeView {
   schoolId: string | null;
   shortest: Feature<RouteProps> | null;
   recommended: Feature<RouteProps> | null;
+  /** The shortest route no safety rule flags (cores that score routes draw it). */
+  safe: Feature<RouteProps> | null;
   status: HomeStatus;
   reasons: string[];
   /** The home's row of the core's homes.csv (score columns: active minutes, waits, ...). */
@@ -79,17 +81,18 @@ function coreVerdict(r: RouteProps): { status: HomeStatus; reasons: string[] } |
 
 export function buildView(doc: AuditDoc): View {
   const walkZoneM = doc.summary.walk_zone_m;
-  const routes = new Map<string, { shortest: Feature<RouteProps> | null; recommended: Feature<RouteProps> | null }>();
+  type Three = { shortest: Feature<RouteProps> | null; recommended: Feature<RouteProps> | null; safe: Feature<RouteProps> | null };
+  const routes = new Map<string, Three>();
   for (const f of doc.routes.features) {
     const id = f.properties.home_id;
-    const e = routes.get(id) ?? { shortest: null, recommended: null };
+    const e = routes.get(id) ?? { shortest: null, recommended: null, safe: null };
     e[f.properties.kind] = f;
     routes.set(id, e);
   }
   let anyCore = false;
   const rows = new Map(homesCsvRows(doc).map((r) => [r['home_id'], r]));
   const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
-    const r = routes.get(h.id) ?? { shortest: null, recommended: null };
+    const r = routes.get(h.id) ?? { shortest: null, recommended: null, safe: null };
     const row = rows.get(h.id);
     let status: HomeStatus;
     let reasons: string[] = [];
@@ -119,6 +122,7 @@ export function buildView(doc: AuditDoc): View {
       schoolId: r.shortest?.properties.school_id ?? h.school ?? null,
       shortest: r.shortest,
       recommended: r.recommended,
+      safe: r.safe,
       status,
       reasons,
       row: row ?? {},

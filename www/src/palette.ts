@@ -20,9 +20,9 @@ export const CLASS_WIDTH: Record<string, number> = {
 };
 
 export const HOME_STATUS = [
-  { key: 'safe', label: 'route passes every safety test', color: '#2f7d5b' },
-  { key: 'unsafe', label: 'route fails a safety test', color: '#e07b39' },
-  { key: 'hazardous', label: 'hazardous route', color: '#8e1b2c' },
+  { key: 'safe', label: 'has a safe route', color: '#2f7d5b' },
+  { key: 'unsafe', label: 'no safe route', color: '#e07b39' },
+  { key: 'hazardous', label: 'no safe route, hazardous one', color: '#8e1b2c' },
   { key: 'beyond', label: 'beyond the walk zone', color: '#8c8c8c' },
   { key: 'unreached', label: 'no route found', color: '#111111' },
 ] as const;
@@ -30,6 +30,7 @@ export const HOME_STATUS = [
 export const ROUTE_STYLE = {
   recommended: { color: '#1b5fa7', label: 'recommended route' },
   shortest: { color: '#262626', label: 'shortest route' },
+  safe: { color: '#2f9e6b', label: 'safe route (shortest that no rule flags)' },
 };
 
 export const DEVICES: { key: string; label: string }[] = [

@@ -45,7 +45,7 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
     el('p', { class: 'small' }, r.individual ? 'Map: streets by speed, crossings by control, homes and routes, hotspots (red circles), network checks (pink rings).' : 'Map: streets by speed, crossings by control, hotspots sized by children × risk (red circles), network checks (pink rings); homes and routes left out.'),
     el('h2', {}, 'Children by route'),
     el('table', { class: 'figures narrow' }, el('tbody', {},
-      ...[['Safe route (passes every test)', byStatus('safe')], ['Route fails a safety test', byStatus('unsafe')], ['Hazardous route', byStatus('hazardous')], ['Beyond the walk zone', byStatus('beyond')], ['No route found', byStatus('unreached')]]
+      ...[['Has a safe route', byStatus('safe')], ['No safe route', byStatus('unsafe')], ['No safe route, the recommended one hazardous', byStatus('hazardous')], ['Beyond the walk zone', byStatus('beyond')], ['No route found', byStatus('unreached')]]
         .map(([k, v]) => el('tr', {}, el('th', {}, String(k)), el('td', {}, `${v} (${fmt.pct(children ? Number(v) / children : null)})`))))),
     el('h2', {}, 'Catchments'),
     table,
@@ -56,7 +56,7 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
     el('p', {}, `Settings: walk zone ${cfg.benefit?.walk_zone_m} m, walking speed ${cfg.benefit?.walking_speed_mps} m/s, detour cap ${cfg.route?.detour_cap}×, ${cfg.route?.metres_per_risk_point} m per risk point.`),
     view.safeSource === 'interim'
       ? el('p', {}, 'Safe route in this report: inside the walk zone, no crossing without a signal, stop sign or guard, and no stretch without a sidewalk.')
-      : el('p', {}, 'Safe route: as scored by the audit core with the thresholds above.'),
+      : el('p', {}, `Safe route: the shortest route that no rule of the rule set “${String((cfg.score?.rules as Record<string, unknown> | undefined)?.['name'] ?? '')}” flags; a home has one when it lies inside the walk zone. Hazardous: a hazardous rule fires on the recommended route and the home has no safe route.`),
     el('h2', {}, 'Sources'),
     el('ul', {}, ...SOURCES.map((s) => el('li', {}, s)), ...Object.entries(r.files).map(([k, v]) => el('li', {}, `${k}: ${v}`))),
     el('h2', {}, 'Cautions'),

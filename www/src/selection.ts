@@ -32,9 +32,9 @@ const ROWS: Row[] = [
 ];
 
 const STATUS_TEXT: Record<string, string> = {
-  safe: 'Safe route: passes every test',
-  unsafe: 'Not a safe route',
-  hazardous: 'Hazardous route',
+  safe: 'Has a safe route',
+  unsafe: 'No safe route',
+  hazardous: 'Hazardous: no safe route',
   beyond: 'Beyond the walk zone',
   unreached: 'No route found',
 };
@@ -42,12 +42,16 @@ const STATUS_TEXT: Record<string, string> = {
 export function homePanel(view: View, h: HomeView): HTMLElement {
   const s = h.shortest?.properties;
   const r = h.recommended?.properties;
+  const sf = h.safe?.properties;
+  const three = view.safeSource === 'core';
   const school = view.doc.layers.schools.find((x) => x.id === h.schoolId);
   const table = el(
     'table',
     { class: 'figures', id: 'home-figures' },
-    el('thead', {}, el('tr', {}, el('th', {}, ''), el('th', { class: 'k-short' }, 'Shortest'), el('th', { class: 'k-rec' }, 'Recommended'))),
-    el('tbody', {}, ...ROWS.map(([label, f]) => el('tr', { 'data-row': label }, el('th', {}, label), el('td', {}, f(s)), el('td', {}, f(r))))),
+    el('thead', {}, el('tr', {}, el('th', {}, ''), el('th', { class: 'k-short' }, 'Shortest'), el('th', { class: 'k-rec' }, 'Recommended'),
+      three ? el('th', { class: 'k-safe' }, 'Safe') : null)),
+    el('tbody', {}, ...ROWS.map(([label, f]) => el('tr', { 'data-row': label }, el('th', {}, label), el('td', {}, f(s)), el('td', {}, f(r)),
+      three ? el('td', {}, sf ? f(sf) : '–') : null))),
   );
   const verdict = el(
     'div',
@@ -63,10 +67,13 @@ export function homePanel(view: View, h: HomeView): HTMLElement {
     verdict,
     view.safeSource === 'interim'
       ? el('p', { class: 'small muted' }, 'Safe-route test: no uncontrolled crossing and no stretch without a sidewalk, inside the walk zone (interim reading: this core does not score routes).')
-      : el('p', { class: 'small muted' }, 'Safe route: inside the walk zone and no rule of the rule set fires on the recommended route (see Settings).'),
+      : el('p', { class: 'small muted' }, 'A home has a safe route when the shortest route that no rule of the rule set flags lies inside the walk zone (rules in Settings).'),
     table,
     dailyTable(h),
-    el('p', { class: 'small muted' }, 'Dashed dark line: shortest route. Wide blue line: recommended route (length plus risk, within the detour cap).'),
+    three && !sf ? el('p', { class: 'small muted' }, 'No route to the school avoids every rule of the rule set.') : null,
+    el('p', { class: 'small muted' }, three
+      ? 'Dashed dark line: shortest route. Blue line: recommended route (length plus risk, within the detour cap). Wide pale green band: safe route, the shortest that no rule flags.'
+      : 'Dashed dark line: shortest route. Blue line: recommended route (length plus risk, within the detour cap).'),
   );
 }
 

@@ -30,7 +30,7 @@ export interface RouteProps {
   home_id: string;
   school_id: string | null;
   children: number;
-  kind: 'shortest' | 'recommended';
+  kind: 'shortest' | 'recommended' | 'safe';
   network_m: number;
   walked_m: number;
   walking_time_min: number;
