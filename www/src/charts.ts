@@ -111,6 +111,19 @@ export function drawCharts(view: View) {
     plugins: [quadrants(xMid, yMid), pointNames],
   }));
 
+  const key = document.getElementById('scatter-key');
+  if (key) {
+    const classes = [...new Set(pts.map((c) => c.quadrant).filter((q): q is string => !!q))];
+    key.replaceChildren(...classes.map((q) => {
+      const span = document.createElement('span');
+      const dot = document.createElement('i');
+      dot.style.background = QUADRANT_COLOR[q] ?? '#888';
+      span.append(dot, q.replace(/_/g, ' '));
+      return span;
+    }));
+    if (classes.length) key.append(document.createTextNode(' — colour: the balance class (walk-zone share and safe-route share against their thresholds); dashed lines: district medians.'));
+  }
+
   // Route lengths, weighted by children, in 200 m bins, the walk zone marked.
   const bin = 200;
   const lens = view.homes.filter((h) => h.shortest).map((h) => ({ m: h.shortest?.properties.network_m ?? 0, w: h.children }));
@@ -144,9 +157,10 @@ export function drawCharts(view: View) {
   const hot = [...view.hotspots]
     .map((f) => {
       const p = f.properties;
-      const what = p['kind'] === 'crossing' ? `× ${String(p['control'] ?? '').replace(/_/g, ' ')}` : `along, ${String(p['control'] ?? '').replace(/_/g, ' ').replace('sidewalk ', 'sidewalk ')}`;
+      const control = String(p['control'] ?? '').replace('sidewalk_absent', 'no sidewalk').replace('sidewalk_unknown', 'sidewalk?').replace(/_/g, ' ');
+      const what = p['kind'] === 'crossing' ? `× ${control}` : `side, ${control}`;
       const street = String(p['street'] ?? '');
-      return { label: `${String(p['rank'] ?? '')}. ${street.length > 18 ? `${street.slice(0, 17)}…` : street} ${what}`, v: Number(p['product'] ?? 0) };
+      return { label: `${String(p['rank'] ?? '')}. ${street.length > 16 ? `${street.slice(0, 15)}…` : street} ${what}`, v: Number(p['product'] ?? 0) };
     })
     .sort((a, b) => b.v - a.v)
     .slice(0, 10);

@@ -39,7 +39,9 @@ export class CatchmentTable {
       return this.desc ? -r : r;
     });
     const head = el('tr', {}, ...COLUMNS.map((c) => {
-      const th = el('th', { 'data-key': String(c.key), class: c.key === k ? (this.desc ? 'sorted desc' : 'sorted asc') : '' }, c.label);
+      const th = el('th', { 'data-key': String(c.key), class: c.key === k ? (this.desc ? 'sorted desc' : 'sorted asc') : '', tabindex: '0',
+        'aria-sort': c.key === k ? (this.desc ? 'descending' : 'ascending') : 'none' }, c.label);
+      th.addEventListener('keydown', (e) => { if (e.key === 'Enter') th.click(); });
       th.addEventListener('click', () => {
         if (this.sortKey === c.key) this.desc = !this.desc;
         else { this.sortKey = c.key; this.desc = c.key !== 'name'; }
@@ -48,8 +50,9 @@ export class CatchmentTable {
       return th;
     }));
     const body = sorted.map((r) => {
-      const tr = el('tr', { 'data-school': r.schoolId, title: r.name }, ...COLUMNS.map((c) => el('td', {}, c.show(r))));
+      const tr = el('tr', { 'data-school': r.schoolId, title: r.name, tabindex: '0' }, ...COLUMNS.map((c) => el('td', {}, c.show(r))));
       tr.addEventListener('click', () => this.onPick(r.schoolId));
+      tr.addEventListener('keydown', (e) => { if (e.key === 'Enter') this.onPick(r.schoolId); });
       return tr;
     });
     this.host.replaceChildren(
