@@ -6,31 +6,11 @@
 
 use catchwalk::config::NetworkConfig;
 use catchwalk::geodesy::LocalFrame;
-use catchwalk::input::{
-    Control, ControlScope, CrossingPoint, Device, Layers, RoadClass, SideWalk, SpeedSource, Street,
-};
+use catchwalk::input::{Control, ControlScope, CrossingPoint, Device, Layers, RoadClass, Street};
 use std::time::Instant;
 
 fn street(feature: usize, line: Vec<[f64; 2]>) -> Street {
-    Street {
-        feature,
-        id: feature.to_string(),
-        name: None,
-        class: RoadClass::Local,
-        speed_kmh: 50.0,
-        speed_source: SpeedSource::ClassDefault,
-        lanes: 2,
-        left: SideWalk::Present,
-        right: SideWalk::Unknown,
-        oneway: false,
-        layer: 0,
-        aadt: None,
-        width_m: None,
-        vehicles_15min: None,
-        median_m: None,
-        shoulder_m: None,
-        line,
-    }
+    Street::new(feature, RoadClass::Local, 50.0, 2, line)
 }
 
 fn main() {

@@ -25,9 +25,7 @@
 
 use catchwalk::audit::audit_route;
 use catchwalk::config::Config;
-use catchwalk::input::{
-    Control, Home, Layers, RoadClass, School, SideWalk, SpeedSource, Street, Students,
-};
+use catchwalk::input::{Control, Home, Layers, RoadClass, School, SideWalk, Street, Students};
 use catchwalk::network::{Corner, Junction, PedEdge, PedEdgeKind, PedGraph, Segment, Side};
 use catchwalk::pipeline::{AuditedRoute, HomeResult};
 use catchwalk::route::assign::{AssignedBy, Assignment};
@@ -38,23 +36,11 @@ use catchwalk::score::score_audit;
 
 fn street(id: &str, name: &str, class: RoadClass, speed: f64, lanes: u32, sw: SideWalk) -> Street {
     Street {
-        feature: 0,
         id: id.into(),
         name: Some(name.into()),
-        class,
-        speed_kmh: speed,
-        speed_source: SpeedSource::Posted,
-        lanes,
         left: sw,
         right: sw,
-        oneway: false,
-        layer: 0,
-        aadt: None,
-        width_m: None,
-        vehicles_15min: None,
-        median_m: None,
-        shoulder_m: None,
-        line: vec![[0.0, 0.0], [0.001, 0.0]],
+        ..Street::new(0, class, speed, lanes, vec![[0.0, 0.0], [0.001, 0.0]])
     }
 }
 

@@ -5,8 +5,7 @@ use catchwalk::audit::{audit_route, RouteAudit};
 use catchwalk::config::NetworkConfig;
 use catchwalk::geodesy::LocalFrame;
 use catchwalk::input::{
-    Control, ControlScope, CrossingPoint, Device, Layers, LonLat, RoadClass, SideWalk, SpeedSource,
-    Street,
+    Control, ControlScope, CrossingPoint, Device, Layers, LonLat, RoadClass, SideWalk, Street,
 };
 use catchwalk::network::qa::QaKind;
 use catchwalk::network::{build_network, Network, PedEdgeKind, PedGraph, Side};
@@ -22,23 +21,14 @@ fn m(x: f64, y: f64) -> LonLat {
 
 fn road(feature: usize, pts: &[(f64, f64)]) -> Street {
     Street {
-        feature,
         id: format!("s{feature}"),
-        name: None,
-        class: RoadClass::Local,
-        speed_kmh: 50.0,
-        speed_source: SpeedSource::Posted,
-        lanes: 2,
-        left: SideWalk::Present,
-        right: SideWalk::Present,
-        oneway: false,
-        layer: 0,
-        aadt: None,
-        width_m: None,
-        vehicles_15min: None,
-        median_m: None,
-        shoulder_m: None,
-        line: pts.iter().map(|&(x, y)| m(x, y)).collect(),
+        ..Street::new(
+            feature,
+            RoadClass::Local,
+            50.0,
+            2,
+            pts.iter().map(|&(x, y)| m(x, y)).collect(),
+        )
     }
 }
 

@@ -4,7 +4,7 @@
 
 use catchwalk::input::{
     Control, ControlScope, CrossingPoint, Device, Home, Layers, RoadClass, School, SideWalk,
-    SpeedSource, Street, Students,
+    Street, Students,
 };
 
 fn street(id: usize, class: RoadClass, line: Vec<[f64; 2]>) -> Street {
@@ -12,29 +12,11 @@ fn street(id: usize, class: RoadClass, line: Vec<[f64; 2]>) -> Street {
         RoadClass::Arterial => (60.0, 4),
         _ => (40.0, 2),
     };
-    Street {
-        feature: id,
-        id: id.to_string(),
-        name: None,
-        class,
-        speed_kmh: speed,
-        speed_source: SpeedSource::Posted,
-        lanes,
-        left: SideWalk::Present,
-        right: if id.is_multiple_of(7) {
-            SideWalk::Absent
-        } else {
-            SideWalk::Present
-        },
-        oneway: false,
-        layer: 0,
-        aadt: None,
-        width_m: None,
-        vehicles_15min: None,
-        median_m: None,
-        shoulder_m: None,
-        line,
+    let mut s = Street::new(id, class, speed, lanes, line);
+    if id.is_multiple_of(7) {
+        s.right = SideWalk::Absent;
     }
+    s
 }
 
 /// A `side x side` grid of junctions (about `2 side^2` segments), `n_schools` schools and

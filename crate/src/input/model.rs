@@ -92,6 +92,44 @@ pub struct Street {
     pub line: Vec<LonLat>,
 }
 
+impl Street {
+    /// A street built in code (tests, benchmarks): posted `speed_kmh` and `lanes`, sidewalks
+    /// on both sides, at grade, every optional property absent; `id` is the feature index.
+    ///
+    /// ```
+    /// use catchwalk::input::{RoadClass, SideWalk, Street};
+    /// let s = Street::new(3, RoadClass::Local, 40.0, 2, vec![[0.0, 0.0], [0.001, 0.0]]);
+    /// assert_eq!((s.id.as_str(), s.left, s.right), ("3", SideWalk::Present, SideWalk::Present));
+    /// ```
+    pub fn new(
+        feature: usize,
+        class: RoadClass,
+        speed_kmh: f64,
+        lanes: u32,
+        line: Vec<LonLat>,
+    ) -> Street {
+        Street {
+            feature,
+            id: feature.to_string(),
+            name: None,
+            class,
+            speed_kmh,
+            speed_source: SpeedSource::Posted,
+            lanes,
+            left: SideWalk::Present,
+            right: SideWalk::Present,
+            oneway: false,
+            layer: 0,
+            aadt: None,
+            width_m: None,
+            vehicles_15min: None,
+            median_m: None,
+            shoulder_m: None,
+            line,
+        }
+    }
+}
+
 /// The traffic device at a crossing, from weakest to strongest.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]

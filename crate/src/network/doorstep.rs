@@ -50,27 +50,12 @@ pub fn add_doorstep_crossings(graph: &mut PedGraph, streets: &[Street], lane_wid
 mod tests {
     use super::*;
     use crate::config::NetworkConfig;
-    use crate::input::{Layers, RoadClass, SideWalk, SpeedSource};
+    use crate::input::{Layers, RoadClass, SideWalk};
 
     fn street(class: RoadClass, right: SideWalk) -> Street {
         Street {
-            feature: 0,
-            id: "s".into(),
-            name: None,
-            class,
-            speed_kmh: 40.0,
-            speed_source: SpeedSource::Posted,
-            lanes: 2,
-            left: SideWalk::Present,
             right,
-            oneway: false,
-            layer: 0,
-            aadt: None,
-            width_m: None,
-            vehicles_15min: None,
-            median_m: None,
-            shoulder_m: None,
-            line: vec![[0.0, 0.0], [0.001, 0.0]],
+            ..Street::new(0, class, 40.0, 2, vec![[0.0, 0.0], [0.001, 0.0]])
         }
     }
 

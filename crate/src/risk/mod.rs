@@ -144,29 +144,11 @@ pub fn edge_risk_points(
 #[cfg(test)]
 pub(crate) mod tests {
     use super::*;
-    use crate::input::{RoadClass, SpeedSource};
+    use crate::input::RoadClass;
 
     /// A straight street with the given class, speed and lanes, for unit tests.
     pub(crate) fn street(class: RoadClass, speed_kmh: f64, lanes: u32) -> Street {
-        Street {
-            feature: 0,
-            id: "s".into(),
-            name: None,
-            class,
-            speed_kmh,
-            speed_source: SpeedSource::Posted,
-            lanes,
-            left: SideWalk::Present,
-            right: SideWalk::Present,
-            oneway: false,
-            layer: 0,
-            aadt: None,
-            width_m: None,
-            vehicles_15min: None,
-            median_m: None,
-            shoulder_m: None,
-            line: vec![[0.0, 0.0], [0.001, 0.0]],
-        }
+        Street::new(0, class, speed_kmh, lanes, vec![[0.0, 0.0], [0.001, 0.0]])
     }
 
     fn one_edge(kind: PedEdgeKind, length_m: f64) -> PedGraph {
