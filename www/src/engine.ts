@@ -96,6 +96,14 @@ export class Engine {
       p.resolve({ docText: m.doc, ms: m.ms });
     } else if (m.type === 'failed') {
       this.pending.delete(m.id);
+      // A trap inside the core leaves its memory in an unknown state: start a fresh worker.
+      if (/^(RuntimeError|InternalError)/.test(m.error)) {
+        this.worker?.terminate();
+        this.worker = null;
+        this.start();
+        p.reject(new Error(JSON.stringify({ message: `the audit core stopped unexpectedly (${m.error}); it has been restarted — please report the layers that caused it`, at: null })));
+        return;
+      }
       p.reject(new Error(m.error));
     }
   }
