@@ -7,7 +7,8 @@ use crate::config::Config;
 use crate::error::{Error, Location};
 use crate::export;
 use crate::input::{HomesFormat, Preset, RawLayers};
-use crate::pipeline::{run_audit, Progress, Stage};
+use crate::pipeline::{run_audit, AuditOutput, Progress, Stage};
+use crate::score::plan::plan_upgrades;
 use serde::Deserialize;
 use serde_json::{json, Value};
 use wasm_bindgen::prelude::*;
@@ -115,6 +116,37 @@ pub fn caution() -> String {
     crate::CAUTION.to_string()
 }
 
+/// Reads the page's layers and config and runs the audit.
+fn run(
+    layers_json: &str,
+    config_json: &str,
+    progress: &js_sys::Function,
+) -> Result<AuditOutput, JsValue> {
+    let page: PageLayers = serde_json::from_str(layers_json).map_err(to_js)?;
+    let raw: RawLayers = page.into();
+    let config = if config_json.trim().is_empty() {
+        Config::default()
+    } else {
+        Config::from_json(config_json).map_err(error_to_js)?
+    };
+    let mut p = JsProgress { callback: progress };
+    run_audit(&raw, &config, &mut p).map_err(error_to_js)
+}
+
+/// Runs the audit and the upgrade planner with a budget of `budget` upgrades; returns the
+/// plan as the command line's `plan.json`.
+#[wasm_bindgen]
+pub fn plan(
+    layers_json: &str,
+    config_json: &str,
+    budget: usize,
+    progress: &js_sys::Function,
+) -> Result<String, JsValue> {
+    let out = run(layers_json, config_json, progress)?;
+    let plan = plan_upgrades(&out, &out.scores.homes, budget);
+    serde_json::to_string(&export::plan_json(&out, &plan)).map_err(to_js)
+}
+
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
 /// catchments?, preset?, mapping?}` with each layer as text; `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
@@ -126,15 +158,7 @@ pub fn audit(
     config_json: &str,
     progress: &js_sys::Function,
 ) -> Result<String, JsValue> {
-    let page: PageLayers = serde_json::from_str(layers_json).map_err(to_js)?;
-    let raw: RawLayers = page.into();
-    let config = if config_json.trim().is_empty() {
-        Config::default()
-    } else {
-        Config::from_json(config_json).map_err(error_to_js)?
-    };
-    let mut p = JsProgress { callback: progress };
-    let out = run_audit(&raw, &config, &mut p).map_err(error_to_js)?;
+    let out = run(layers_json, config_json, progress)?;
     let doc: Value = json!({
         "summary": export::summary_json(&out),
         "homes_csv": export::homes_csv(&out),

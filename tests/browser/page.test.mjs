@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
 import { serve } from '../../www/serve.mjs';
-import { assertSameHomesCsv, cliAudit, parseCsv } from '../wasm/compare.mjs';
+import { assertSameHomesCsv, cliAudit, cliPlan, parseCsv } from '../wasm/compare.mjs';
 
 let browser, server, base, cliCsv, cliDir;
 const demo = join(root, 'sample-maps', 'demo-town');
@@ -119,6 +119,16 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
     assertSameHomesCsv(got, readFileSync(join(cliDir, file), 'utf8'), 1e-9, file);
     assert.ok(parseCsv(got).length > 5, `${file} has rows`);
   }
+  // The upgrade planner chooses the command line's upgrades, in the same order.
+  await page.fill('#plan-budget', '3');
+  await page.click('#plan-run');
+  await page.waitForSelector('#plan-summary');
+  const planned = await page.evaluate(() => window.catchwalkPlan.plan);
+  const expectedPlan = cliPlan(3).plan;
+  assert.deepEqual(planned.steps.map((s) => [s.upgrade, s.edge, s.children_gained]), expectedPlan.steps.map((s) => [s.upgrade, s.edge, s.children_gained]));
+  assert.ok(planned.safe_children_after >= planned.safe_children_before);
+  assert.equal(await page.locator('#plan-table tbody tr').count(), expectedPlan.steps.length);
+  await page.screenshot({ path: join(shots, '10-upgrade-plan.png') });
   // Shared routes export has no home in it.
   await page.uncheck('#include-homes');
   const [dl2] = await Promise.all([page.waitForEvent('download'), page.click('#x-routes')]);

@@ -78,3 +78,13 @@ export function cliAudit(homesFile = 'homes.geojson', extra = []) {
   return out;
 }
 
+
+/** Runs the native CLI's upgrade planner on the demo town; returns its plan.json. */
+export function cliPlan(budget) {
+  assert.ok(existsSync(cli), `native CLI not found at ${cli} (set CATCHWALK_CLI or run make build)`);
+  const out = mkdtempSync(join(tmpdir(), 'catchwalk-plan-'));
+  execFileSync(cli, ['plan', '--budget', String(budget), '--streets', join(demo, 'streets.geojson'), '--schools', join(demo, 'schools.geojson'),
+    '--homes', join(demo, 'homes.geojson'), '--crossings', join(demo, 'crossings.geojson'),
+    '--catchments', join(demo, 'catchments.geojson'), '--out', out], { stdio: ['ignore', 'ignore', 'inherit'] });
+  return JSON.parse(readFileSync(join(out, 'plan.json'), 'utf8'));
+}

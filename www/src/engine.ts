@@ -110,6 +110,15 @@ export class Engine {
 
   /** Runs one audit in the worker. */
   audit(layers: string, config: string, onProgress: (p: Progress) => void): Promise<AuditResult> {
+    return this.send((id) => ({ type: 'audit', id, layers, config }), onProgress);
+  }
+
+  /** Runs the audit and the upgrade planner in the worker; the result is the plan document. */
+  plan(layers: string, config: string, budget: number, onProgress: (p: Progress) => void): Promise<AuditResult> {
+    return this.send((id) => ({ type: 'plan', id, layers, config, budget }), onProgress);
+  }
+
+  private send(make: (id: number) => ToWorker, onProgress: (p: Progress) => void): Promise<AuditResult> {
     if (!this.ready) this.start();
     const id = this.nextId++;
     return new Promise((resolve, reject) => {
@@ -119,8 +128,7 @@ export class Engine {
         await this.ready;
         if (!this.pending.has(id)) return;
         if (!this.worker) return reject(new Error('the audit worker is not running'));
-        const msg: ToWorker = { type: 'audit', id, layers, config };
-        this.worker.postMessage(msg);
+        this.worker.postMessage(make(id));
       };
       post().catch((e: Error) => {
         this.pending.delete(id);

@@ -136,16 +136,7 @@ async function runAudit(fit: boolean) {
   setState('running');
   const bar = $('progress');
   bar.hidden = false;
-  const layers = JSON.stringify({
-    streets: files.streets?.text,
-    crossings: files.crossings?.text ?? null,
-    schools: files.schools?.text,
-    homes: files.homes?.text,
-    homes_format: files.homes?.name.toLowerCase().endsWith('.csv') ? 'csv' : 'geo_json',
-    catchments: files.catchments?.text ?? null,
-    preset: ($('preset') as HTMLSelectElement).value,
-    mapping: files.mapping?.text ?? null,
-  });
+  const layers = layersJson();
   const fitNow = fit || !view;
   try {
     const t0 = performance.now();
@@ -158,6 +149,7 @@ async function runAudit(fit: boolean) {
     });
     const doc = JSON.parse(res.docText) as AuditDoc;
     $('mapnote').hidden = true;
+    $('plan-out').replaceChildren();
     const tParsed = performance.now();
     view = buildView(doc);
     await map.show(view, layerJson('catchments'), fitNow);
@@ -278,6 +270,59 @@ function reselect() {
   }
 }
 
+// ---------- upgrade planner ----------
+
+interface PlanStep { rank: number; upgrade: string; edge: number; street: string; children_gained: number; risk_reduction: number; safe_children_after: number }
+interface PlanDoc { plan: { steps: PlanStep[]; safe_children_before: number; safe_children_after: number; children_routed: number }; caution?: string }
+
+function layersJson(): string {
+  return JSON.stringify({
+    streets: files.streets?.text,
+    crossings: files.crossings?.text ?? null,
+    schools: files.schools?.text,
+    homes: files.homes?.text,
+    homes_format: files.homes?.name.toLowerCase().endsWith('.csv') ? 'csv' : 'geo_json',
+    catchments: files.catchments?.text ?? null,
+    preset: ($('preset') as HTMLSelectElement).value,
+    mapping: files.mapping?.text ?? null,
+  });
+}
+
+async function runPlan() {
+  if (!ready() || running) return;
+  const budget = Math.max(1, Math.min(50, Math.round(Number(($('plan-budget') as HTMLInputElement).value) || 5)));
+  const out = $('plan-out');
+  out.replaceChildren(el('p', { class: 'small muted' }, 'Planning…'));
+  running = true;
+  try {
+    const res = await engine.plan(layersJson(), settings.json(), budget, () => {});
+    const doc = JSON.parse(res.docText) as PlanDoc;
+    (window as unknown as Record<string, unknown>).catchwalkPlan = doc;
+    const p = doc.plan;
+    const pct = (x: number) => (p.children_routed ? `${Math.round((100 * x) / p.children_routed)} %` : '–');
+    const rows = p.steps.map((st) => {
+      const tr = el('tr', { tabindex: '0' }, el('td', {}, String(st.rank)), el('td', {}, st.upgrade.replace(/_/g, ' ')), el('td', {}, st.street), el('td', {}, `+${st.children_gained}`));
+      const spot = view?.hotspots.find((f) => f.properties['edge'] === st.edge);
+      if (spot) { tr.classList.add('zoomable'); tr.addEventListener('click', () => map.fit([spot], 18)); }
+      return tr;
+    });
+    out.replaceChildren(
+      el('p', { class: 'small', id: 'plan-summary' }, `Children with a safe route: ${p.safe_children_before} (${pct(p.safe_children_before)}) → ${p.safe_children_after} (${pct(p.safe_children_after)}) after ${p.steps.length} upgrade${p.steps.length === 1 ? '' : 's'}.`),
+      p.steps.length
+        ? el('table', { class: 'figures', id: 'plan-table' }, el('thead', {}, el('tr', {}, el('th', {}, '#'), el('th', {}, 'Upgrade'), el('th', {}, 'Where'), el('th', {}, 'Children'))), el('tbody', {}, ...rows))
+        : el('p', { class: 'small muted' }, 'No upgrade in the catalogue gives another child a safe route.'),
+      el('p', { class: 'small muted' }, 'Candidates to study on site, not designs: each needs an engineering study and local approval.'),
+    );
+  } catch (e) {
+    let msg = (e as Error).message;
+    try { msg = (JSON.parse(msg) as Message).message; } catch { /* plain text */ }
+    out.replaceChildren(el('p', { class: 'small error' }, msg === 'cancelled' ? 'Planning cancelled.' : msg));
+  } finally {
+    running = false;
+    if (again) { again = false; schedule(); }
+  }
+}
+
 // ---------- legend, tabs, report ----------
 
 function renderLegend() {
@@ -376,6 +421,7 @@ $('x-catchments').addEventListener('click', () => view && saveCatchments(view));
 $('x-hotspots-csv').addEventListener('click', () => view && saveHotspotsCsv(view));
 homesBtn.addEventListener('click', () => view && includeHomes.checked && saveHomes(view));
 $('x-report').addEventListener('click', () => printReport());
+$('plan-run').addEventListener('click', () => runPlan());
 
 const drop = $('drop');
 for (const ev of ['dragenter', 'dragover']) document.addEventListener(ev, (e) => { e.preventDefault(); drop.classList.add('over'); });

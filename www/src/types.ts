@@ -135,7 +135,8 @@ export const LAYER_KEYS: LayerKey[] = ['streets', 'crossings', 'schools', 'homes
 /** Messages between the page and its worker. */
 export type ToWorker =
   | { type: 'init'; module: WebAssembly.Module }
-  | { type: 'audit'; id: number; layers: string; config: string };
+  | { type: 'audit'; id: number; layers: string; config: string }
+  | { type: 'plan'; id: number; layers: string; config: string; budget: number };
 
 export type FromWorker =
   | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string> }

@@ -20,7 +20,7 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     post({ type: 'ready', defaultConfig: core.defaultConfig(), caution: core.caution(), ruleSets });
     return;
   }
-  if (msg.type === 'audit') {
+  if (msg.type === 'audit' || msg.type === 'plan') {
     const t0 = performance.now();
     const progress = (stage: string, done: number, total: number): boolean => {
       const now = performance.now();
@@ -32,7 +32,9 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
       return true;
     };
     try {
-      const doc = core.audit(msg.layers, msg.config, progress);
+      const doc = msg.type === 'plan'
+        ? (core as unknown as { plan: (l: string, c: string, b: number, p: typeof progress) => string }).plan(msg.layers, msg.config, msg.budget, progress)
+        : core.audit(msg.layers, msg.config, progress);
       post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
     } catch (e) {
       post({ type: 'failed', id: msg.id, error: String(e) });
