@@ -8,7 +8,7 @@ import { AuditMap } from './map';
 import { buildView, type View } from './model';
 import { DEVICES, HOME_STATUS, PATH_COLOR, QA_COLOR, ROUTE_STYLE, SPEED_BANDS, deficitColor, deviceImage } from './palette';
 import { buildReport } from './report';
-import { catchmentPanel, homePanel } from './selection';
+import { catchmentPanel, districtPanel, homePanel } from './selection';
 import { Settings } from './settings';
 import { CatchmentTable } from './table';
 import { LAYER_KEYS, type AuditDoc, type Feature, type FeatureCollection, type LayerFile, type LayerKey, type Message } from './types';
@@ -252,6 +252,7 @@ function reselect() {
   const host = $('selection');
   if (!view || !selected) {
     map.showRoutes([], null);
+    if (view) host.replaceChildren(districtPanel(view));
     return;
   }
   if (selected.kind === 'home') {

@@ -115,3 +115,27 @@ export function catchmentPanel(view: View, c: CatchmentView): HTMLElement {
     el('table', { class: 'figures', id: 'catchment-figures' }, el('tbody', {}, ...rows.map(([k, v]) => el('tr', {}, el('th', {}, k), el('td', {}, v))))),
   );
 }
+
+/** The district at a glance, shown while nothing is selected. */
+export function districtPanel(view: View): HTMLElement {
+  const kids = view.homes.reduce((a, h) => a + h.children, 0);
+  const by = (st: string) => view.homes.filter((h) => h.status === st).reduce((a, h) => a + h.children, 0);
+  const share = (n: number) => (kids ? ` (${Math.round((100 * n) / kids)} %)` : '');
+  const rows: [string, string][] = [
+    ['Schools', String(view.catchments.length)],
+    ['Homes / children', `${view.homes.length} / ${kids}`],
+    ['Children with a safe route', `${by('safe')}${share(by('safe'))}`],
+    ['In the walk zone, no safe route', `${by('unsafe') + by('hazardous')}${share(by('unsafe') + by('hazardous'))}`],
+    ['… of them on a hazardous route', `${by('hazardous')}`],
+    ['Beyond the walk zone', `${by('beyond')}${share(by('beyond'))}`],
+    ['No route found', `${by('unreached')}`],
+  ];
+  const worst = [...view.catchments].filter((c) => c.deficit !== null).sort((a, b) => (b.deficit ?? 0) - (a.deficit ?? 0))[0];
+  return el('div', { id: 'district' },
+    el('h3', {}, 'The district at a glance'),
+    el('p', { class: 'muted' }, `Walk zone ${view.walkZoneM} m. Click a home or a catchment on the map, or a row of the Catchments tab.`),
+    el('table', { class: 'figures' }, el('tbody', {}, ...rows.map(([k, v]) => el('tr', {}, el('th', {}, k), el('td', {}, v))))),
+    worst && (worst.deficit ?? 0) > 0
+      ? el('p', {}, `Largest deficit: ${worst.name || worst.schoolId}, ${Math.round((worst.deficit ?? 0) * 100)} % of its children live in the walk zone without a safe route.`)
+      : null);
+}
