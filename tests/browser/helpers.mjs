@@ -18,7 +18,7 @@ export async function launch() {
   return chromium.launch({
     executablePath: CHROMIUM,
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--no-first-run', '--disable-background-networking',
-      '--disable-component-update', '--disable-sync', '--allow-file-access-from-files'],
+      '--disable-component-update', '--disable-sync'],
   });
 }
 
