@@ -49,8 +49,6 @@ export interface View {
   catchments: CatchmentView[];
   hotspots: Feature[];
   walkZoneM: number;
-  /** Which test decides "safe": the core's own, or the page's interim reading of the route. */
-  safeSource: 'core' | 'interim';
 }
 
 const num = (v: unknown): number | null => {
@@ -58,15 +56,6 @@ const num = (v: unknown): number | null => {
   const n = Number(v);
   return isFinite(n) ? n : null;
 };
-
-/** Why a route fails the interim safe-route reading (no reasons: it passes). */
-function interimReasons(r: RouteProps): string[] {
-  const out: string[] = [];
-  if (r.uncontrolled_crossings > 0)
-    out.push(`${r.uncontrolled_crossings} crossing${r.uncontrolled_crossings > 1 ? 's' : ''} with no signal, stop or guard`);
-  if (r.no_sidewalk_m > 0) out.push(`${Math.round(r.no_sidewalk_m)} m beside traffic with no sidewalk`);
-  return out;
-}
 
 /** The core's verdict on a recommended route, when the core scores routes. */
 function coreVerdict(r: RouteProps): { status: HomeStatus; reasons: string[] } | null {
@@ -89,7 +78,6 @@ export function buildView(doc: AuditDoc): View {
     e[f.properties.kind] = f;
     routes.set(id, e);
   }
-  let anyCore = false;
   const rows = new Map(homesCsvRows(doc).map((r) => [r['home_id'], r]));
   const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
     const r = routes.get(h.id) ?? { shortest: null, recommended: null, safe: null };
@@ -99,18 +87,12 @@ export function buildView(doc: AuditDoc): View {
     if (!r.shortest || !r.recommended) {
       status = 'unreached';
       reasons = ['no walking route to a school was found'];
-    } else if (row && row['in_walk_zone'] !== undefined && row['in_walk_zone'] !== '' ? row['in_walk_zone'] === 'false' : r.shortest.properties.network_m > walkZoneM) {
+    } else if (row?.['in_walk_zone'] === 'false') {
       status = 'beyond';
       reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${walkZoneM} m walk zone`];
     } else {
-      const core = coreVerdict(r.recommended.properties);
-      if (core) {
-        anyCore = true;
-        ({ status, reasons } = core);
-      } else {
-        reasons = interimReasons(r.recommended.properties);
-        status = reasons.length ? 'unsafe' : 'safe';
-      }
+      // Every verdict is the core's; the page only displays it.
+      ({ status, reasons } = coreVerdict(r.recommended.properties) ?? { status: 'unsafe', reasons: ['the core gave no safe-route verdict for this route'] });
       if (r.recommended.properties.over_detour_cap && status !== 'safe')
         reasons.push('a safer route would exceed the detour cap, so the shortest stands');
     }
@@ -138,7 +120,6 @@ export function buildView(doc: AuditDoc): View {
     catchments,
     hotspots: hot?.features ?? [],
     walkZoneM,
-    safeSource: anyCore ? 'core' : 'interim',
   };
 }
 

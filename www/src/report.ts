@@ -54,9 +54,7 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
     el('h2', {}, 'Method'),
     el('p', {}, 'Streets are split into their two sides; corners join at every junction and each leg of a junction is a crossing with the control the crossings layer gives it. Every home is routed to its school twice: the shortest walk, and a recommended walk that trades length against risk (each risk point is worth a set number of metres) within a detour cap. Each route is audited for its length, walking time, the crossings it makes and what controls them, and the distance walked beside traffic or without a sidewalk. Risk is an index, not a prediction of injuries.'),
     el('p', {}, `Settings: walk zone ${cfg.benefit?.walk_zone_m} m, walking speed ${cfg.benefit?.walking_speed_mps} m/s, detour cap ${cfg.route?.detour_cap}×, ${cfg.route?.metres_per_risk_point} m per risk point.`),
-    view.safeSource === 'interim'
-      ? el('p', {}, 'Safe route in this report: inside the walk zone, no crossing without a signal, stop sign or guard, and no stretch without a sidewalk.')
-      : el('p', {}, `Safe route: the shortest route that no rule of the rule set “${String((cfg.score?.rules as Record<string, unknown> | undefined)?.['name'] ?? '')}” flags; a home has one when it lies inside the walk zone. Hazardous: a hazardous rule fires on the recommended route and the home has no safe route.`),
+    el('p', {}, `Safe route: the shortest route that no rule of the rule set “${String((cfg.score?.rules as Record<string, unknown> | undefined)?.['name'] ?? '')}” flags; a home has one when it lies inside the walk zone. Hazardous: a hazardous rule fires on the recommended route and the home has no safe route.`),
     el('h2', {}, 'Sources'),
     el('ul', {}, ...SOURCES.map((s) => el('li', {}, s)), ...Object.entries(r.files).map(([k, v]) => el('li', {}, `${k}: ${v}`))),
     el('h2', {}, 'Cautions'),

@@ -43,15 +43,14 @@ export function homePanel(view: View, h: HomeView): HTMLElement {
   const s = h.shortest?.properties;
   const r = h.recommended?.properties;
   const sf = h.safe?.properties;
-  const three = view.safeSource === 'core';
   const school = view.doc.layers.schools.find((x) => x.id === h.schoolId);
   const table = el(
     'table',
     { class: 'figures', id: 'home-figures' },
     el('thead', {}, el('tr', {}, el('th', {}, ''), el('th', { class: 'k-short' }, 'Shortest'), el('th', { class: 'k-rec' }, 'Recommended'),
-      three ? el('th', { class: 'k-safe' }, 'Safe') : null)),
+      el('th', { class: 'k-safe' }, 'Safe'))),
     el('tbody', {}, ...ROWS.map(([label, f]) => el('tr', { 'data-row': label }, el('th', {}, label), el('td', {}, f(s)), el('td', {}, f(r)),
-      three ? el('td', {}, sf ? f(sf) : '–') : null))),
+      el('td', {}, sf ? f(sf) : '–')))),
   );
   const verdict = el(
     'div',
@@ -65,15 +64,11 @@ export function homePanel(view: View, h: HomeView): HTMLElement {
     el('h3', {}, `Home ${h.id}`),
     el('p', { class: 'muted' }, `${h.children} child${h.children === 1 ? '' : 'ren'} · school ${school?.name ?? h.schoolId ?? '–'}`),
     verdict,
-    view.safeSource === 'interim'
-      ? el('p', { class: 'small muted' }, 'Safe-route test: no uncontrolled crossing and no stretch without a sidewalk, inside the walk zone (interim reading: this core does not score routes).')
-      : el('p', { class: 'small muted' }, 'A home has a safe route when the shortest route that no rule of the rule set flags lies inside the walk zone (rules in Settings).'),
+    el('p', { class: 'small muted' }, 'A home has a safe route when the shortest route that no rule of the rule set flags lies inside the walk zone (rules in Settings).'),
     table,
     dailyTable(h),
-    three && !sf ? el('p', { class: 'small muted' }, 'No route to the school avoids every rule of the rule set.') : null,
-    el('p', { class: 'small muted' }, three
-      ? 'Dashed dark line: shortest route. Blue line: recommended route (length plus risk, within the detour cap). Wide pale green band: safe route, the shortest that no rule flags.'
-      : 'Dashed dark line: shortest route. Blue line: recommended route (length plus risk, within the detour cap).'),
+    !sf ? el('p', { class: 'small muted' }, 'No route to the school avoids every rule of the rule set.') : null,
+    el('p', { class: 'small muted' }, 'Dashed dark line: shortest route. Blue line: recommended route (length plus risk, within the detour cap). Wide pale green band: safe route, the shortest that no rule flags.'),
   );
 }
 
