@@ -16,7 +16,7 @@ const cli = process.env.CATCHWALK_CLI ?? join(root, 'target', 'release', 'catchw
 export function parseCsv(text) {
   const rows = [];
   for (const line of text.split(/\r?\n/)) {
-    if (line === '') continue;
+    if (line === '' || line.startsWith('#')) continue; // '#': the caution line of shareable tables
     // The core writes no quoted cells in homes.csv except ids; split with quotes respected.
     const cells = [];
     let cell = '', q = false;

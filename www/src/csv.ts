@@ -34,9 +34,10 @@ export function parseCsv(text: string): string[][] {
   return rows;
 }
 
-/** Rows as objects keyed by the header. */
+/** Rows as objects keyed by the header; a leading `#` line (the caution of the core's
+ * shareable tables) is not part of the table. */
 export function csvObjects(text: string): Record<string, string>[] {
-  const [header, ...rows] = parseCsv(text);
+  const [header, ...rows] = parseCsv(text.replace(/^#[^\n]*\n/, ''));
   if (!header) return [];
   return rows.map((r) => Object.fromEntries(header.map((h, i) => [h, r[i] ?? ''])));
 }

@@ -110,7 +110,7 @@ pub fn catchments_csv(out: &AuditOutput) -> String {
             out.config.score.rules.name.clone(),
         ]);
     }
-    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+    super::shareable_csv(w)
 }
 
 /// The per-catchment figures as JSON, for `summary.json`.
@@ -170,5 +170,5 @@ pub fn plan_csv(plan: &Plan) -> String {
             s.safe_children_after.to_string(),
         ]);
     }
-    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+    super::shareable_csv(w)
 }

@@ -78,5 +78,5 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
             h.los.map(|l| l.as_str().to_string()).unwrap_or_default(),
         ]);
     }
-    String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()
+    super::shareable_csv(w)
 }

@@ -33,3 +33,10 @@ pub(crate) fn edge_side(kind: &crate::network::PedEdgeKind) -> &'static str {
         PedEdgeKind::Crossing { .. } => "crossing",
     }
 }
+
+/// A shareable CSV table: the caution as a `#` comment line first (a spreadsheet shows it as
+/// the first row; `pandas.read_csv(comment="#")` skips it), then the table.
+pub(crate) fn shareable_csv(w: csv::Writer<Vec<u8>>) -> String {
+    let table = String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default();
+    format!("# {}\n{table}", crate::CAUTION)
+}
