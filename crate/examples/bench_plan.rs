@@ -9,32 +9,17 @@
 mod synthetic_district;
 
 use catchwalk::config::Config;
-use catchwalk::pipeline::{audit_layers, Progress, Stage};
+use catchwalk::pipeline::audit_layers;
 use catchwalk::score::plan::plan_upgrades;
 use std::time::Instant;
 
-struct Clock(Instant);
-impl Progress for Clock {
-    fn report(&mut self, _: Stage, _: usize, _: usize) -> bool {
-        true
-    }
-    fn now_ms(&self) -> f64 {
-        self.0.elapsed().as_secs_f64() * 1000.0
-    }
-}
-
 fn main() {
-    let arg = |i: usize, d: usize| {
-        std::env::args()
-            .nth(i)
-            .and_then(|s| s.parse().ok())
-            .unwrap_or(d)
-    };
+    let arg = synthetic_district::arg;
     let (side, n_homes, n_schools, budget) = (arg(1, 100), arg(2, 5_000), arg(3, 20), arg(4, 5));
     let layers = synthetic_district::district(side, n_homes, n_schools);
     let config = Config::default();
     let t = Instant::now();
-    let mut clock = Clock(Instant::now());
+    let mut clock = synthetic_district::Clock(Instant::now());
     match audit_layers(layers, &config, &mut clock) {
         Ok(out) => {
             println!(

@@ -14,7 +14,7 @@ use common::demo_town;
 use catchwalk::config::Config;
 use catchwalk::input::{
     Control, ControlScope, CrossingPoint, Device, Home, Layers, RoadClass, School, SideWalk,
-    SpeedSource, Street, Students, TimeWindow,
+    Street, Students, TimeWindow,
 };
 use catchwalk::network::{PedEdgeKind, PedGraph};
 use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
@@ -96,27 +96,20 @@ fn grid_layers(
                 SideWalk::Present,
             ][s.sidewalk as usize % 4];
             Street {
-                feature: k,
                 id: format!("s{k}"),
-                name: None,
-                class,
-                speed_kmh: [20.0, 30.0, 40.0, 50.0, 60.0, 70.0][s.speed as usize % 6],
-                speed_source: SpeedSource::Posted,
-                lanes: [1, 2, 4][s.lanes as usize % 3],
                 left: sw,
                 right: if s.sidewalk == 3 {
                     SideWalk::Absent
                 } else {
                     sw
                 },
-                oneway: false,
-                layer: 0,
-                aadt: None,
-                width_m: None,
-                vehicles_15min: None,
-                median_m: None,
-                shoulder_m: None,
-                line,
+                ..Street::new(
+                    k,
+                    class,
+                    [20.0, 30.0, 40.0, 50.0, 60.0, 70.0][s.speed as usize % 6],
+                    [1, 2, 4][s.lanes as usize % 3],
+                    line,
+                )
             }
         })
         .collect();

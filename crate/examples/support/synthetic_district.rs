@@ -2,6 +2,28 @@
 //! signals where arterials meet, schools and homes placed by a fixed-seed generator.
 //! Invented data, for measurement only.
 
+use catchwalk::pipeline::{Progress, Stage};
+use std::time::Instant;
+
+/// A wall clock for the audit's timings; reports nothing.
+pub struct Clock(pub Instant);
+impl Progress for Clock {
+    fn report(&mut self, _: Stage, _: usize, _: usize) -> bool {
+        true
+    }
+    fn now_ms(&self) -> f64 {
+        self.0.elapsed().as_secs_f64() * 1000.0
+    }
+}
+
+/// The `i`-th command-line argument as a number, else `default`.
+pub fn arg(i: usize, default: usize) -> usize {
+    std::env::args()
+        .nth(i)
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(default)
+}
+
 use catchwalk::input::{
     Control, ControlScope, CrossingPoint, Device, Home, Layers, RoadClass, School, SideWalk,
     Street, Students,
