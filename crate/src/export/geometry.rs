@@ -11,6 +11,13 @@ pub fn slice_line(line: &[LonLat], f0: f64, f1: f64) -> Vec<LonLat> {
     if line.len() < 2 {
         return line.to_vec();
     }
+    // Whole edges (every step but a route's first and last) need no measuring.
+    if f0 <= 0.0 && f1 >= 1.0 {
+        return line.to_vec();
+    }
+    if f0 >= 1.0 && f1 <= 0.0 {
+        return line.iter().rev().copied().collect();
+    }
     let mut cum = Vec::with_capacity(line.len());
     cum.push(0.0);
     for w in line.windows(2) {

@@ -16,6 +16,14 @@ fn line(coords: &[LonLat]) -> Value {
     json!({ "type": "LineString", "coordinates": coords })
 }
 
+/// A LineString with coordinates rounded to 7 decimals (about 1 cm): routes are drawings,
+/// and full precision would double the size of a district's routes file.
+fn drawn_line(coords: &[LonLat]) -> Value {
+    let r = |x: f64| (x * 1e7).round() / 1e7;
+    let c: Vec<LonLat> = coords.iter().map(|p| [r(p[0]), r(p[1])]).collect();
+    line(&c)
+}
+
 fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: bool) -> Value {
     let h = &out.homes[home];
     let a = &r.audit;
@@ -67,7 +75,7 @@ fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: boo
     }
     json!({
         "type": "Feature",
-        "geometry": line(&route_line(&out.network.graph, &r.route.steps)),
+        "geometry": drawn_line(&route_line(&out.network.graph, &r.route.steps)),
         "properties": props,
     })
 }
