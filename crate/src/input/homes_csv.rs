@@ -59,8 +59,8 @@ fn lonlat_columns(header: &[String], fields: &LayerFields) -> Result<(usize, usi
 /// use catchwalk::input::{homes_csv::read_homes_csv, fields::{LayerFields, HOMES}};
 /// use catchwalk::input::warnings::Warnings;
 /// let mut w = Warnings::default();
-/// let homes = read_homes_csv("id,Lat,Lon\nh1,45.5,-73.6\n", &LayerFields::plain(HOMES), &mut w).unwrap();
-/// assert_eq!(homes[0].at, [-73.6, 45.5]);
+/// let homes = read_homes_csv("id,Lat,Lon\nh1,42.0,-35.0\n", &LayerFields::plain(HOMES), &mut w).unwrap();
+/// assert_eq!(homes[0].at, [-35.0, 42.0]);
 /// ```
 pub fn read_homes_csv(text: &str, fields: &LayerFields, w: &mut Warnings) -> Result<Vec<Home>> {
     let text = text.trim_start_matches('\u{feff}');
