@@ -147,6 +147,21 @@ pub fn plan(
     serde_json::to_string(&export::plan_json(&out, &plan)).map_err(to_js)
 }
 
+/// The page's audit document; the large collections serialise straight to text.
+#[derive(serde::Serialize)]
+struct AuditDoc<'a> {
+    summary: Value,
+    homes_csv: String,
+    catchments_csv: String,
+    hotspots_csv: String,
+    routes: export::layers_geojson::Collection<export::layers_geojson::RouteProps<'a>>,
+    qa: Value,
+    centrelines: export::layers_geojson::Collection<export::layers_geojson::SegmentProps<'a>>,
+    hotspots: Value,
+    layers: Value,
+    warnings: &'a [crate::error::Warning],
+}
+
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
 /// catchments?, preset?, mapping?}` with each layer as text; `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
@@ -159,24 +174,24 @@ pub fn audit(
     progress: &js_sys::Function,
 ) -> Result<String, JsValue> {
     let out = run(layers_json, config_json, progress)?;
-    let doc: Value = json!({
-        "summary": export::summary_json(&out),
-        "homes_csv": export::homes_csv(&out),
-        "catchments_csv": export::catchments_csv(&out),
-        "hotspots_csv": export::hotspots_csv(&out),
-        "routes": export::routes_geojson(&out),
-        "qa": export::qa_geojson(&out.network.qa),
-        "centrelines": export::centrelines_geojson(&out),
-        "hotspots": export::hotspots_geojson(&out),
-        "layers": {
+    let doc = AuditDoc {
+        summary: export::summary_json(&out),
+        homes_csv: export::homes_csv(&out),
+        catchments_csv: export::catchments_csv(&out),
+        hotspots_csv: export::hotspots_csv(&out),
+        routes: export::routes_geojson(&out),
+        qa: export::qa_geojson(&out.network.qa),
+        centrelines: export::centrelines_geojson(&out),
+        hotspots: export::hotspots_geojson(&out),
+        layers: json!({
             "crossings": out.layers.crossings,
             "schools": out.layers.schools,
             "homes": out.layers.homes,
             "catchments": out.layers.catchments.iter()
                 .map(|c| json!({ "feature": c.feature, "school_id": c.school_id }))
                 .collect::<Vec<_>>(),
-        },
-        "warnings": out.warnings,
-    });
+        }),
+        warnings: &out.warnings,
+    };
     serde_json::to_string(&doc).map_err(to_js)
 }

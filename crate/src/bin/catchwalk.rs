@@ -197,7 +197,7 @@ fn write(dir: &Path, name: &str, text: &str) -> Result<(), String> {
     std::fs::write(&p, text).map_err(|e| format!("cannot write {}: {e}", p.display()))
 }
 
-fn json(v: &serde_json::Value) -> String {
+fn json<T: serde::Serialize>(v: &T) -> String {
     serde_json::to_string_pretty(v).unwrap_or_default()
 }
 

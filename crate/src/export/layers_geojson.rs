@@ -6,84 +6,152 @@ use crate::input::LonLat;
 use crate::network::crossing_width_m;
 use crate::network::qa::Qa;
 use crate::pipeline::{AuditOutput, AuditedRoute};
-use serde_json::{json, Map, Value};
+use serde::Serialize;
+use serde_json::{json, Value};
+use std::collections::BTreeMap;
 
 fn collection(features: Vec<Value>) -> Value {
     json!({ "type": "FeatureCollection", "caution": crate::CAUTION, "features": features })
 }
 
-fn line(coords: &[LonLat]) -> Value {
-    json!({ "type": "LineString", "coordinates": coords })
+/// A GeoJSON FeatureCollection of typed features: serialised straight to text, without an
+/// intermediate `Value` per coordinate (a district has millions of route points).
+#[derive(Debug, Serialize)]
+pub struct Collection<P> {
+    #[serde(rename = "type")]
+    kind: &'static str,
+    caution: &'static str,
+    pub features: Vec<Feature<P>>,
+}
+
+/// A LineString feature with typed properties.
+#[derive(Debug, Serialize)]
+pub struct Feature<P> {
+    #[serde(rename = "type")]
+    kind: &'static str,
+    pub geometry: LineString,
+    pub properties: P,
+}
+
+#[derive(Debug, Serialize)]
+pub struct LineString {
+    #[serde(rename = "type")]
+    kind: &'static str,
+    pub coordinates: Vec<LonLat>,
+}
+
+fn feature<P>(coordinates: Vec<LonLat>, properties: P) -> Feature<P> {
+    Feature {
+        kind: "Feature",
+        geometry: LineString {
+            kind: "LineString",
+            coordinates,
+        },
+        properties,
+    }
+}
+
+fn typed_collection<P>(features: Vec<Feature<P>>) -> Collection<P> {
+    Collection {
+        kind: "FeatureCollection",
+        caution: crate::CAUTION,
+        features,
+    }
+}
+
+/// The figures of one route, as `routes.geojson` carries them.
+#[derive(Debug, Serialize)]
+pub struct RouteProps<'a> {
+    pub home_id: &'a str,
+    pub school_id: Option<&'a str>,
+    pub children: u32,
+    pub kind: &'static str,
+    pub network_m: f64,
+    pub walked_m: f64,
+    pub walking_time_min: f64,
+    pub crossings: usize,
+    pub crossings_by_device: BTreeMap<&'static str, u32>,
+    pub uncontrolled_crossings: u32,
+    pub arterial_crossings: u32,
+    pub arterial_exposure_m: f64,
+    pub along_le30_m: f64,
+    pub along_31_50_m: f64,
+    pub along_gt50_m: f64,
+    pub no_sidewalk_m: f64,
+    pub risk: f64,
+    pub over_detour_cap: bool,
+    /// The home's verdict, on its recommended route only.
+    #[serde(flatten, skip_serializing_if = "Option::is_none")]
+    pub verdict: Option<RouteVerdict<'a>>,
+}
+
+/// The safe-route verdict carried by a recommended route.
+#[derive(Debug, Serialize)]
+pub struct RouteVerdict<'a> {
+    pub safe_route: bool,
+    pub safe_network_m: Option<f64>,
+    pub unsafe_reason: &'a str,
+    pub hazardous: bool,
+    pub hazard_reason: &'a str,
 }
 
 /// A LineString with coordinates rounded to 7 decimals (about 1 cm): routes are drawings,
 /// and full precision would double the size of a district's routes file.
-fn drawn_line(coords: &[LonLat]) -> Value {
+fn drawn(coords: Vec<LonLat>) -> Vec<LonLat> {
     let r = |x: f64| (x * 1e7).round() / 1e7;
-    let c: Vec<LonLat> = coords.iter().map(|p| [r(p[0]), r(p[1])]).collect();
-    line(&c)
+    coords.into_iter().map(|p| [r(p[0]), r(p[1])]).collect()
 }
 
-fn route_feature(out: &AuditOutput, home: usize, r: &AuditedRoute, over_cap: bool) -> Value {
+fn route_feature<'a>(
+    out: &'a AuditOutput,
+    home: usize,
+    r: &AuditedRoute,
+    over_cap: bool,
+) -> Feature<RouteProps<'a>> {
     let h = &out.homes[home];
     let a = &r.audit;
-    let mut props = Map::new();
-    props.insert("home_id".into(), json!(out.layers.homes[home].id));
-    props.insert(
-        "school_id".into(),
-        json!(h
+    let verdict = match (r.kind, out.scores.homes.get(home)) {
+        (crate::route::RouteKind::Recommended, Some(sc)) => Some(RouteVerdict {
+            safe_route: sc.safe_route,
+            safe_network_m: sc.safe_network_m.map(round2),
+            unsafe_reason: &sc.unsafe_reason,
+            hazardous: sc.hazardous,
+            hazard_reason: &sc.hazard_reason,
+        }),
+        _ => None,
+    };
+    let props = RouteProps {
+        home_id: &out.layers.homes[home].id,
+        school_id: h
             .assignment
             .school
-            .map(|s| out.layers.schools[s].id.clone())),
-    );
-    props.insert("children".into(), json!(out.layers.homes[home].children));
-    props.insert("kind".into(), json!(r.kind.as_str()));
-    props.insert("network_m".into(), json!(round2(a.network_m)));
-    props.insert("walked_m".into(), json!(round2(a.walked_m)));
-    props.insert(
-        "walking_time_min".into(),
-        json!(round2(
-            a.walked_m / out.config.benefit.walking_speed_mps / 60.0
-        )),
-    );
-    props.insert("crossings".into(), json!(a.crossings.len()));
-    props.insert("crossings_by_device".into(), json!(a.crossings_by_device()));
-    props.insert(
-        "uncontrolled_crossings".into(),
-        json!(a.uncontrolled_crossings),
-    );
-    props.insert("arterial_crossings".into(), json!(a.arterial_crossings));
-    props.insert(
-        "arterial_exposure_m".into(),
-        json!(round2(a.arterial_exposure_m)),
-    );
-    props.insert("along_le30_m".into(), json!(round2(a.along_le30_m)));
-    props.insert("along_31_50_m".into(), json!(round2(a.along_31_50_m)));
-    props.insert("along_gt50_m".into(), json!(round2(a.along_gt50_m)));
-    props.insert("no_sidewalk_m".into(), json!(round2(a.no_sidewalk_m)));
-    props.insert("risk".into(), json!((r.risk * 1e4).round() / 1e4));
-    props.insert("over_detour_cap".into(), json!(over_cap));
-    if let (crate::route::RouteKind::Recommended, Some(sc)) = (r.kind, out.scores.homes.get(home)) {
-        props.insert("safe_route".into(), json!(sc.safe_route));
-        props.insert(
-            "safe_network_m".into(),
-            json!(sc.safe_network_m.map(round2)),
-        );
-        props.insert("unsafe_reason".into(), json!(sc.unsafe_reason));
-        props.insert("hazardous".into(), json!(sc.hazardous));
-        props.insert("hazard_reason".into(), json!(sc.hazard_reason));
-    }
-    json!({
-        "type": "Feature",
-        "geometry": drawn_line(&route_line(&out.network.graph, &r.route.steps)),
-        "properties": props,
-    })
+            .and_then(|s| out.layers.schools.get(s))
+            .map(|s| s.id.as_str()),
+        children: out.layers.homes[home].children,
+        kind: r.kind.as_str(),
+        network_m: round2(a.network_m),
+        walked_m: round2(a.walked_m),
+        walking_time_min: round2(a.walked_m / out.config.benefit.walking_speed_mps / 60.0),
+        crossings: a.crossings.len(),
+        crossings_by_device: a.crossings_by_device(),
+        uncontrolled_crossings: a.uncontrolled_crossings,
+        arterial_crossings: a.arterial_crossings,
+        arterial_exposure_m: round2(a.arterial_exposure_m),
+        along_le30_m: round2(a.along_le30_m),
+        along_31_50_m: round2(a.along_31_50_m),
+        along_gt50_m: round2(a.along_gt50_m),
+        no_sidewalk_m: round2(a.no_sidewalk_m),
+        risk: (r.risk * 1e4).round() / 1e4,
+        over_detour_cap: over_cap,
+        verdict,
+    };
+    feature(drawn(route_line(&out.network.graph, &r.route.steps)), props)
 }
 
 /// One LineString per home and route kind (shortest, recommended, and the safe route where
-/// one exists), with the route's figures. Personal data: homes
-/// are individual here, so this export stays on the planner's machine.
-pub fn routes_geojson(out: &AuditOutput) -> Value {
+/// one exists), with the route's figures. Personal data: homes are individual here, so this
+/// export stays on the planner's machine.
+pub fn routes_geojson(out: &AuditOutput) -> Collection<RouteProps<'_>> {
     let mut features = Vec::new();
     for (i, h) in out.homes.iter().enumerate() {
         if let Some(r) = &h.shortest {
@@ -96,7 +164,7 @@ pub fn routes_geojson(out: &AuditOutput) -> Value {
             features.push(route_feature(out, i, r, false));
         }
     }
-    collection(features)
+    typed_collection(features)
 }
 
 /// Network QA findings as points.
@@ -115,27 +183,47 @@ pub fn qa_geojson(qa: &Qa) -> Value {
     collection(features)
 }
 
+/// One centreline segment's properties in `centrelines.geojson`.
+#[derive(Debug, Serialize)]
+pub struct SegmentProps<'a> {
+    pub segment: usize,
+    pub from: u32,
+    pub to: u32,
+    pub length_m: f64,
+    pub street_id: &'a str,
+    pub class: &'static str,
+    pub speed_kmh: f64,
+    pub lanes: u32,
+    pub layer: i32,
+    pub crossing_width_m: f64,
+}
+
 /// The noded centreline graph: one LineString per segment with its end junctions and
 /// geodesic length, so an outside graph library can recompute shortest paths.
-pub fn centrelines_geojson(out: &AuditOutput) -> Value {
+pub fn centrelines_geojson(out: &AuditOutput) -> Collection<SegmentProps<'_>> {
     let g = &out.network.graph;
     let features = g
         .segments
         .iter()
         .enumerate()
-        .map(|(i, s)| {
-            let st = &out.layers.streets[s.street];
-            json!({
-                "type": "Feature",
-                "geometry": line(&s.line),
-                "properties": {
-                    "segment": i, "from": s.from, "to": s.to, "length_m": s.length_m,
-                    "street_id": st.id, "class": st.class.as_str(), "speed_kmh": st.speed_kmh,
-                    "lanes": st.lanes, "layer": st.layer,
-                    "crossing_width_m": crossing_width_m(&out.config.network, st),
+        .filter_map(|(i, s)| {
+            let st = out.layers.streets.get(s.street)?;
+            Some(feature(
+                s.line.clone(),
+                SegmentProps {
+                    segment: i,
+                    from: s.from,
+                    to: s.to,
+                    length_m: s.length_m,
+                    street_id: &st.id,
+                    class: st.class.as_str(),
+                    speed_kmh: st.speed_kmh,
+                    lanes: st.lanes,
+                    layer: st.layer,
+                    crossing_width_m: crossing_width_m(&out.config.network, st),
                 },
-            })
+            ))
         })
         .collect();
-    collection(features)
+    typed_collection(features)
 }
