@@ -158,25 +158,39 @@ pub fn edge_cost(
 
 /// Edge costs for the shortest or recommended route, indexed like `graph.edges`.
 pub fn edge_costs(
-    network: &Network,
-    layers: &Layers,
+    graph: &PedGraph,
+    streets: &[Street],
     config: &Config,
     kind: RouteKind,
 ) -> Vec<f64> {
-    let g = &network.graph;
-    g.edges
+    graph
+        .edges
         .iter()
-        .map(|e| edge_cost(g, e, &layers.streets, config, kind))
+        .map(|e| edge_cost(graph, e, streets, config, kind))
         .collect()
 }
 
 /// Recommended-route edge costs of a graph.
 pub fn recommended_costs(graph: &PedGraph, streets: &[Street], config: &Config) -> Vec<f64> {
-    graph
-        .edges
-        .iter()
-        .map(|e| edge_cost(graph, e, streets, config, RouteKind::Recommended))
-        .collect()
+    edge_costs(graph, streets, config, RouteKind::Recommended)
+}
+
+/// Holds a home's recommended route to the detour cap: when it is more than `cap` times the
+/// shortest walked length, the shortest route stands in and the home is flagged. Returns
+/// whether it did.
+pub fn apply_detour_cap(h: &mut HomeResult, cap: f64) -> bool {
+    let Some(sh) = &h.shortest else { return false };
+    let over = h
+        .recommended
+        .as_ref()
+        .is_some_and(|rec| rec.audit.walked_m > cap * sh.audit.walked_m + 1e-9);
+    if over {
+        let mut standin = sh.clone();
+        standin.kind = RouteKind::Recommended;
+        h.recommended = Some(standin);
+        h.over_detour_cap = true;
+    }
+    over
 }
 
 /// Safe-route edge costs: walked metres, impassable where a rule of the rule set flags the
@@ -286,8 +300,13 @@ pub fn audit_layers(
     let (mut network, school_att, home_att) = prepare_network(&layers, config);
     let t1 = progress.now_ms();
 
-    let walk_cost = edge_costs(&network, &layers, config, RouteKind::Shortest);
-    let rec_cost = edge_costs(&network, &layers, config, RouteKind::Recommended);
+    let walk_cost = edge_costs(&network.graph, &layers.streets, config, RouteKind::Shortest);
+    let rec_cost = edge_costs(
+        &network.graph,
+        &layers.streets,
+        config,
+        RouteKind::Recommended,
+    );
     let assignments = assign_schools(
         &network.graph,
         &walk_cost,
@@ -353,15 +372,7 @@ pub fn audit_layers(
             }
         }
         for &i in &members {
-            let h = &mut homes[i];
-            if let (Some(sh), Some(rec)) = (&h.shortest, &h.recommended) {
-                if rec.audit.walked_m > config.route.detour_cap * sh.audit.walked_m + 1e-9 {
-                    let mut standin = sh.clone();
-                    standin.kind = RouteKind::Recommended;
-                    h.recommended = Some(standin);
-                    h.over_detour_cap = true;
-                }
-            }
+            apply_detour_cap(&mut homes[i], config.route.detour_cap);
         }
     }
     progress.report(Stage::Routing, n_schools, n_schools);

@@ -120,30 +120,21 @@ export class AuditMap {
       filter: foot as maplibregl.FilterSpecification,
       paint: { 'line-color': PATH_COLOR, 'line-width': 2, 'line-dasharray': [2, 1.5] },
     });
-    m.addLayer({
-      id: 'sel-shortest',
-      type: 'line',
-      source: 'sel-routes',
-      filter: ['==', ['get', 'kind'], 'shortest'],
-      layout: { 'line-cap': 'round', 'line-join': 'round' },
-      paint: { 'line-color': ROUTE_STYLE.shortest.color, 'line-width': 3, 'line-dasharray': [1.5, 1.2], 'line-opacity': 0.85 },
-    });
-    m.addLayer({
-      id: 'sel-safe',
-      type: 'line',
-      source: 'sel-routes',
-      filter: ['==', ['get', 'kind'], 'safe'],
-      layout: { 'line-cap': 'round', 'line-join': 'round' },
-      paint: { 'line-color': ROUTE_STYLE.safe.color, 'line-width': 9, 'line-opacity': 0.35 },
-    });
-    m.addLayer({
-      id: 'sel-recommended',
-      type: 'line',
-      source: 'sel-routes',
-      filter: ['==', ['get', 'kind'], 'recommended'],
-      layout: { 'line-cap': 'round', 'line-join': 'round' },
-      paint: { 'line-color': ROUTE_STYLE.recommended.color, 'line-width': 5, 'line-opacity': 0.75 },
-    });
+    // The selected home's routes, drawn safe (widest, faint) under recommended under shortest.
+    const routePaint: [string, Record<string, unknown>][] = [
+      ['shortest', { 'line-color': ROUTE_STYLE.shortest.color, 'line-width': 3, 'line-dasharray': [1.5, 1.2], 'line-opacity': 0.85 }],
+      ['safe', { 'line-color': ROUTE_STYLE.safe.color, 'line-width': 9, 'line-opacity': 0.35 }],
+      ['recommended', { 'line-color': ROUTE_STYLE.recommended.color, 'line-width': 5, 'line-opacity': 0.75 }],
+    ];
+    for (const [kind, paint] of routePaint)
+      m.addLayer({
+        id: `sel-${kind}`,
+        type: 'line',
+        source: 'sel-routes',
+        filter: ['==', ['get', 'kind'], kind],
+        layout: { 'line-cap': 'round', 'line-join': 'round' },
+        paint: paint as maplibregl.LineLayerSpecification['paint'],
+      });
     m.addLayer({
       id: 'hotspots',
       type: 'circle',

@@ -6,12 +6,8 @@ use crate::network::qa::Qa;
 use crate::network::qa::QaKind;
 use crate::network::{PedEdgeKind, PedGraph};
 use crate::pipeline::AuditOutput;
+use crate::score::catchment::weighted_mean as mean;
 use serde_json::{json, Value};
-
-fn mean(xs: &[(f64, f64)]) -> Option<f64> {
-    let w: f64 = xs.iter().map(|x| x.1).sum();
-    (w > 0.0).then(|| xs.iter().map(|x| x.0 * x.1).sum::<f64>() / w)
-}
 
 /// The summary document.
 pub fn summary_json(out: &AuditOutput) -> Value {
@@ -53,7 +49,7 @@ pub fn summary_json(out: &AuditOutput) -> Value {
                 .collect();
             let in_zone: f64 = routed
                 .iter()
-                .filter(|r| r.0 <= walk_zone)
+                .filter(|r| crate::benefit::in_walk_zone(r.0, &out.config.benefit))
                 .map(|r| r.3)
                 .sum();
             let len: Vec<(f64, f64)> = routed.iter().map(|r| (r.0, r.3)).collect();

@@ -124,14 +124,7 @@ pub fn read_homes_csv(text: &str, fields: &LayerFields, w: &mut Warnings) -> Res
         };
         let (x, y) = (number(ilon)?, number(ilat)?);
         let at = check_lonlat(x, y, &|| ctx.at())?;
-        let (children, school) = plain::home_attrs(&ctx, &props, fields, w);
-        out.push(Home {
-            feature: index,
-            id: ctx.id.clone().unwrap_or_else(|| index.to_string()),
-            at,
-            children,
-            school,
-        });
+        out.push(plain::home(&ctx, at, &props, fields, w));
         index += 1;
     }
     Ok(out)

@@ -225,14 +225,7 @@ pub fn homes(text: &str, fields: &LayerFields, w: &mut Warnings) -> Result<Vec<H
             Some(GeometryValue::Point { coordinates }) => lonlat(&coordinates, &|| ctx.at())?,
             _ => return Err(wrong_geometry(ctx.at(), found, "Point")),
         };
-        let (children, school) = plain::home_attrs(&ctx, &props, fields, w);
-        out.push(Home {
-            feature: index,
-            id: ctx.id.clone().unwrap_or_else(|| index.to_string()),
-            at,
-            children,
-            school,
-        });
+        out.push(plain::home(&ctx, at, &props, fields, w));
         Ok(())
     })?;
     Ok(out)

@@ -28,6 +28,8 @@ pub struct Tree {
     pub pred_edge: Vec<u32>,
     pub origin: Vec<u32>,
     touched: Vec<u32>,
+    /// Marks the corners still awaited in this growth; all false between growths.
+    is_target: Vec<bool>,
     heap: BinaryHeap<HeapItem>,
 }
 
@@ -62,6 +64,7 @@ impl Tree {
             pred_edge: vec![NONE; n],
             origin: vec![NONE; n],
             touched: Vec::new(),
+            is_target: vec![false; n],
             heap: BinaryHeap::new(),
         }
     }
@@ -102,14 +105,12 @@ impl Tree {
                 });
             }
         }
-        let mut remaining = targets.len();
-        let mut is_target = Vec::new();
-        if remaining > 0 {
-            is_target = vec![false; self.cost.len()];
-            remaining = 0;
-            for &t in targets {
-                if !is_target[t as usize] {
-                    is_target[t as usize] = true;
+        let whole_tree = targets.is_empty();
+        let mut remaining = 0;
+        for &t in targets {
+            if let Some(flag) = self.is_target.get_mut(t as usize) {
+                if !*flag {
+                    *flag = true;
                     remaining += 1;
                 }
             }
@@ -119,8 +120,8 @@ impl Tree {
             if cost > self.cost[ci] {
                 continue;
             }
-            if !is_target.is_empty() && is_target[ci] {
-                is_target[ci] = false;
+            if !whole_tree && self.is_target[ci] {
+                self.is_target[ci] = false;
                 remaining -= 1;
                 if remaining == 0 {
                     break;
@@ -148,6 +149,11 @@ impl Tree {
             }
         }
         self.heap.clear();
+        for &t in targets {
+            if let Some(flag) = self.is_target.get_mut(t as usize) {
+                *flag = false;
+            }
+        }
     }
 
     /// Edges from `corner` back to its source, nearest first.

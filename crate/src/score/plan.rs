@@ -278,14 +278,8 @@ pub fn reroute_school(
                 }),
             _ => None,
         };
-        if let (Some(sh), Some(rec)) = (&nh.shortest, &nh.recommended) {
-            if rec.audit.walked_m > config.route.detour_cap * sh.audit.walked_m + 1e-9 {
-                let mut standin = sh.clone();
-                standin.kind = RouteKind::Recommended;
-                nh.recommended = Some(standin);
-                nh.over_detour_cap = true;
-                same = false;
-            }
+        if crate::pipeline::apply_detour_cap(&mut nh, config.route.detour_cap) {
+            same = false;
         }
         same &= nh.recommended.is_some() == h.recommended.is_some();
         out.push((i, nh, same));

@@ -305,6 +305,18 @@ pub fn entrances(
     Ok(out)
 }
 
+/// A home at `at`: its id (default the feature index), children and assigned school.
+pub fn home(ctx: &Ctx, at: LonLat, props: &Props, f: &LayerFields, w: &mut Warnings) -> Home {
+    let (children, school) = home_attrs(ctx, props, f, w);
+    Home {
+        feature: ctx.index,
+        id: ctx.id.clone().unwrap_or_else(|| ctx.index.to_string()),
+        at,
+        children,
+        school,
+    }
+}
+
 /// A home's children (positive whole number, default 1) and assigned school.
 pub fn home_attrs(
     ctx: &Ctx,
