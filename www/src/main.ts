@@ -9,6 +9,7 @@ import { buildView, type View } from './model';
 import { DEVICES, HOME_STATUS, PATH_COLOR, QA_COLOR, ROUTE_STYLE, SPEED_BANDS, deficitColor, deviceImage } from './palette';
 import { buildReport } from './report';
 import { catchmentPanel, districtPanel, homePanel } from './selection';
+import { isBinary, placeFile, type Placement } from './placement';
 import { Settings } from './settings';
 import { CatchmentTable } from './table';
 import { LAYER_KEYS, type AuditDoc, type Feature, type FeatureCollection, type LayerFile, type LayerKey, type Message } from './types';
@@ -26,6 +27,10 @@ const LAYER_INFO: Record<LayerKey, { label: string; required: boolean; accept: s
 
 const files: Record<LayerKey, LayerFile | null> = { streets: null, crossings: null, schools: null, homes: null, catchments: null, mapping: null };
 const parsed = new Map<LayerKey, FeatureCollection | null>();
+/** Why each dropped file went where it did (absent for files chosen with a picker). */
+const placed = new Map<LayerKey, Placement>();
+/** Set when the set of loaded layers changes: the next audit frames the data. */
+let framePending = false;
 const engine = new Engine();
 let view: View | null = null;
 let selected: { kind: 'home' | 'catchment'; id: string } | null = null;
@@ -51,10 +56,23 @@ function layerJson(key: LayerKey): FeatureCollection | null {
   return parsed.get(key) ?? null;
 }
 
-function setFile(key: LayerKey, f: LayerFile | null) {
+function setFile(key: LayerKey, f: LayerFile | null, why: Placement | null = null) {
   files[key] = f;
   parsed.delete(key);
+  if (why) placed.set(key, why);
+  else placed.delete(key);
+  framePending = true;
   renderLayerList();
+}
+
+/** Moves a loaded file to another layer; a file already there takes its place. */
+function moveFile(from: LayerKey, to: LayerKey) {
+  if (from === to) return;
+  const a = files[from];
+  const b = files[to];
+  setFile(to, a, { layer: to, why: 'moved here by you' });
+  setFile(from, b, b ? { layer: from, why: 'moved here by you' } : null);
+  schedule();
 }
 
 function renderLayerList() {
@@ -68,28 +86,24 @@ function renderLayerList() {
       if (file) { setFile(key, { name: file.name, text: await file.text() }); schedule(); }
     });
     const pick = el('label', { for: `file-${key}`, class: 'pick' }, f ? 'replace' : 'choose…');
-    const clear = f && !info.required ? el('button', { type: 'button', class: 'link', title: `remove the ${info.label.toLowerCase()} layer` }, '×') : null;
+    const clear = f && !info.required ? el('button', { type: 'button', class: 'link', title: `remove the ${info.label.toLowerCase()} layer`, 'aria-label': `remove the ${info.label.toLowerCase()} layer` }, '×') : null;
     clear?.addEventListener('click', () => { setFile(key, null); schedule(); });
+    const why = placed.get(key);
+    let move: HTMLElement | null = null;
+    if (f) {
+      const sel = el('select', { class: 'move', title: 'move this file to another layer', 'aria-label': `move ${f.name} to another layer` },
+        el('option', { value: '' }, 'move to…'),
+        ...LAYER_KEYS.filter((k) => k !== key).map((k) => el('option', { value: k }, LAYER_INFO[k].label))) as HTMLSelectElement;
+      sel.addEventListener('change', () => { if (sel.value) moveFile(key, sel.value as LayerKey); });
+      move = sel;
+    }
     return el('div', { class: `layer ${f ? 'has' : info.required ? 'missing' : ''}`, 'data-layer': key },
       el('span', { class: 'lname' }, info.label, info.required ? el('span', { class: 'req', title: 'required' }, ' *') : null),
       el('span', { class: 'fname', title: f?.name ?? '' }, f ? f.name : info.required ? 'required' : 'optional'),
-      input, pick, clear);
+      input, pick, clear,
+      f && why ? el('span', { class: 'why' }, why.why) : null,
+      move);
   }));
-}
-
-/** Which layer a dropped file is: by its name, else by its geometry. */
-function guessLayer(name: string, text: string): LayerKey | null {
-  const n = name.toLowerCase();
-  for (const key of LAYER_KEYS) if (n.includes(key.replace(/s$/, ''))) return key;
-  if (n.includes('mapping') || n.includes('fields')) return 'mapping';
-  if (n.endsWith('.csv')) return 'homes';
-  try {
-    const fc = JSON.parse(text) as FeatureCollection;
-    const t = fc.features?.[0]?.geometry?.type ?? '';
-    if (t.includes('LineString')) return 'streets';
-    if (t.includes('Polygon')) return 'catchments';
-  } catch { /* not JSON: leave it to the pickers */ }
-  return null;
 }
 
 async function loadDemo() {
@@ -137,7 +151,9 @@ async function runAudit(fit: boolean) {
   const bar = $('progress');
   bar.hidden = false;
   const layers = layersJson();
-  const fitNow = fit || !view;
+  const frame = framePending;
+  framePending = false;
+  const fitNow = fit || frame || !view;
   try {
     const t0 = performance.now();
     const res = await engine.audit(layers, settings.json(), (p) => {
@@ -171,7 +187,7 @@ async function runAudit(fit: boolean) {
     setState('done');
   } catch (e) {
     const msg = (e as Error).message;
-    if (msg === 'cancelled') { setStatus('Audit cancelled.'); setState('cancelled'); }
+    if (msg === 'cancelled') { framePending = framePending || frame; setStatus('Audit cancelled.'); setState('cancelled'); }
     else {
       let m: Message = { message: msg, at: null };
       try { m = JSON.parse(msg) as Message; } catch { /* plain text */ }
@@ -182,6 +198,7 @@ async function runAudit(fit: boolean) {
         $('mapnote').textContent = 'The audit stopped on an error in the data; the map still shows the last audit that ran.';
         $('mapnote').hidden = false;
       }
+      framePending = framePending || frame;
       document.body.dataset.failures = String(Number(document.body.dataset.failures ?? 0) + 1);
       setState('failed');
     }
@@ -402,6 +419,7 @@ $('report-close').addEventListener('click', () => { $('report').hidden = true; d
 
 document.querySelectorAll<HTMLElement>('.tabs button').forEach((b) => b.addEventListener('click', () => showTab(b.dataset.tab ?? 'sel')));
 $('demo').addEventListener('click', () => loadDemo());
+$('fit-all').addEventListener('click', () => { if (view) map.fit(view.doc.centrelines, 18); });
 $('run').addEventListener('click', () => runAudit(false));
 $('preset').addEventListener('change', () => schedule());
 $('cancel').addEventListener('click', async () => {
@@ -431,14 +449,24 @@ document.addEventListener('drop', async (e) => {
   e.preventDefault();
   drop.classList.remove('over');
   const unknown: string[] = [];
+  const went: string[] = [];
   for (const file of Array.from(e.dataTransfer?.files ?? [])) {
+    if (isBinary(file.name)) {
+      // Binary layers (Zipped Shapefile, .osm.pbf) are read by the core once it reads them.
+      const p = placeFile({ name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) });
+      unknown.push(`${file.name} (${p.why}; this page reads GeoJSON and CSV)`);
+      continue;
+    }
     const text = await file.text();
-    const key = guessLayer(file.name, text);
-    if (key) setFile(key, { name: file.name, text });
-    else unknown.push(file.name);
+    const p = placeFile({ name: file.name, text });
+    if (p.layer) {
+      setFile(p.layer, { name: file.name, text }, p);
+      went.push(`${file.name} → ${LAYER_INFO[p.layer].label.toLowerCase()}`);
+    } else unknown.push(`${file.name} (${p.why})`);
   }
-  if (unknown.length) setStatus(`Could not tell which layer ${unknown.join(', ')} is: use the pickers.`);
-  schedule();
+  setStatus([went.length ? `Placed ${went.join(', ')}: check the list and move a file if it is wrong.` : '',
+    unknown.length ? `Could not place ${unknown.join('; ')}: use the pickers.` : ''].filter(Boolean).join(' '));
+  if (went.length) schedule();
 });
 
 // Exposed for the end-to-end tests and for planners who script the page.
