@@ -21,13 +21,22 @@ if (!existsSync(join(out, 'wasm', 'catchwalk_bg.wasm'))) {
 
 const common = { bundle: true, minify: true, target: 'es2022', legalComments: 'none', logLevel: 'warning' };
 
+// Label glyph ranges made by tools/glyphs (web.mk): served from build/glyphs, inlined in the
+// single file.
+const glyphDir = join(out, 'glyphs');
+const glyphs = {};
+if (existsSync(glyphDir))
+  for (const f of readdirSync(glyphDir).filter((n) => n.endsWith('.pbf')).sort())
+    glyphs[f.replace(/\.pbf$/, '')] = readFileSync(join(glyphDir, f)).toString('base64');
+if (!Object.keys(glyphs).length) console.warn('build.mjs: no label glyphs in www/build/glyphs (run `make web-build`): street names will not show');
+
 async function bundle(entry, autodemo) {
   const r = await esbuild.build({
     ...common,
     entryPoints: [join(www, 'src', entry)],
     format: 'iife',
     write: false,
-    define: { CATCHWALK_AUTODEMO: String(autodemo), 'import.meta.url': '"about:blank"' },
+    define: { CATCHWALK_AUTODEMO: String(autodemo), CATCHWALK_GLYPH_RANGES: JSON.stringify(Object.keys(glyphs)), 'import.meta.url': '"about:blank"' },
   });
   return r.outputFiles[0].text;
 }
@@ -66,6 +75,7 @@ const inline = {
   wasm: readFileSync(join(out, 'wasm', 'catchwalk_bg.wasm')).toString('base64'),
   worker,
   demo,
+  glyphs,
 };
 const single = html
   .replace('<!--STYLES-->', () => `<style>\n${css.replace(/<\/style/gi, '<\\/style')}\n</style>`)
@@ -80,6 +90,7 @@ const size = (p) => `${(statSync(p).size / 1024).toFixed(0)} KiB`;
 console.log(
   `page built: build/app.js ${size(join(out, 'app.js'))}, build/worker.js ${size(join(out, 'worker.js'))}, ` +
     `build/wasm/catchwalk_bg.wasm ${size(join(out, 'wasm', 'catchwalk_bg.wasm'))}, dist/catchwalk.html ${size(join(dist, 'catchwalk.html'))}` +
+    `, label glyphs ${Object.keys(glyphs).join(', ') || 'none'} (${(Object.values(glyphs).reduce((a, b) => a + b.length, 0) / 1024).toFixed(0)} KiB inlined)` +
     (Object.keys(demo).length ? `, demo town: ${Object.keys(demo).join(', ')}` : ', demo town not found'),
 );
 if (!readdirSync(out).includes('index.html')) process.exit(1);

@@ -8,6 +8,8 @@ export interface Inline {
   wasm: string;
   worker: string;
   demo: Record<string, string>;
+  /** Label glyph ranges ("0-255" -> base64 PBF), built from a font at build time. */
+  glyphs?: Record<string, string>;
 }
 
 declare global {

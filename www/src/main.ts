@@ -9,6 +9,8 @@ import { buildView, type View } from './model';
 import { DEVICES, HOME_STATUS, PATH_COLOR, QA_COLOR, ROUTE_STYLE, SPEED_BANDS, deficitColor, deviceImage } from './palette';
 import { buildReport } from './report';
 import { catchmentPanel, districtPanel, homePanel } from './selection';
+import { FindBox, findIndex, type Found } from './find';
+import { streetNames } from './labels';
 import { isBinary, placeFile, type Placement } from './placement';
 import { Settings } from './settings';
 import { CatchmentTable } from './table';
@@ -41,6 +43,8 @@ let audits = 0;
 const map = new AuditMap($('map'), { onHome: (id) => select('home', id), onCatchment: (id) => select('catchment', id) });
 const table = new CatchmentTable($('table'), (id) => select('catchment', id));
 const settings = new Settings($<HTMLFormElement>('settings'), () => schedule());
+const findBox = new FindBox($<HTMLInputElement>('find'), $('find-list'), (f) => found(f));
+findBox.setIndex([]);
 
 // ---------- layers ----------
 
@@ -101,8 +105,7 @@ function renderLayerList() {
       el('span', { class: 'lname' }, info.label, info.required ? el('span', { class: 'req', title: 'required' }, ' *') : null),
       el('span', { class: 'fname', title: f?.name ?? '' }, f ? f.name : info.required ? 'required' : 'optional'),
       input, pick, clear,
-      f && why ? el('span', { class: 'why' }, why.why) : null,
-      move);
+      f ? el('div', { class: 'placed' }, why ? el('span', { class: 'why' }, why.why) : el('span'), move) : null);
   }));
 }
 
@@ -169,6 +172,10 @@ async function runAudit(fit: boolean) {
     const tParsed = performance.now();
     view = buildView(doc);
     await map.show(view, layerJson('catchments'), fitNow);
+    const names = streetNames(layerJson('streets'), layerJson('mapping'));
+    await map.setStreetNames(names);
+    findBox.setIndex(findIndex(view, names));
+    map.showFound([]);
     table.set(view.catchments);
     drawCharts(view);
     renderMessages(doc.warnings, doc.qa, null);
@@ -262,6 +269,36 @@ function select(kind: 'home' | 'catchment', id: string) {
     const routes = view.homes.filter((h) => h.schoolId === id && h.recommended).map((h) => h.recommended as Feature);
     const poly = layerJson('catchments')?.features.filter((_, i) => view?.doc.layers.catchments.find((c) => c.feature === i)?.school_id === id) ?? [];
     map.fit(poly.length ? poly : routes, 16);
+  }
+}
+
+/** The find box's choice: the map goes there and the panel shows it. */
+function found(f: Found) {
+  if (!view) return;
+  map.showFound(f.features);
+  if (f.kind === 'home') return select('home', f.key);
+  if (f.kind === 'school') {
+    select('catchment', f.key);
+    map.fit(f.features, 16);
+    return;
+  }
+  selected = null;
+  reselect();
+  showTab('sel');
+  map.fit(f.features, f.kind === 'crossing' ? 18 : 17);
+  const host = $('selection');
+  if (f.kind === 'crossing') {
+    const c = view.doc.layers.crossings.find((x) => x.id === f.key);
+    host.replaceChildren(el('h3', {}, `Crossing ${f.key}`),
+      el('p', {}, `Control: ${c ? (c.control.guard ? 'crossing guard' : String(c.control.device).replace(/_/g, ' ')) : 'unknown'}${c?.control.refuge_island ? ', refuge island' : ''}.`),
+      el('p', { class: 'small muted' }, 'Click its symbol on the map for what the audit found there.'));
+  } else {
+    const spots = view.hotspots.filter((h) => h.properties['street'] === f.key).slice(0, 8);
+    host.replaceChildren(el('h3', {}, f.key),
+      el('p', { class: 'small muted' }, `${f.features.length} line${f.features.length === 1 ? '' : 's'} in the streets layer.`),
+      spots.length
+        ? el('table', { class: 'figures' }, el('tbody', {}, ...spots.map((h) => el('tr', {}, el('th', {}, `hotspot #${h.properties['rank']}`), el('td', {}, `${h.properties['kind'] === 'crossing' ? 'crossing' : 'along'}, ${Number(h.properties['product']).toFixed(1)} children × risk`)))))
+        : el('p', { class: 'small' }, 'No hotspot on this street.'));
   }
 }
 
@@ -397,6 +434,7 @@ async function printReport() {
   map.map.resize();
   const individual = includeHomes.checked;
   map.hideHomes(!individual);
+  map.showFound([]);
   if (scope) select('catchment', scope);
   else { selected = null; reselect(); map.fit(view.doc.centrelines); }
   await new Promise<void>((r) => map.map.once('idle', () => r()));
@@ -451,6 +489,11 @@ document.addEventListener('drop', async (e) => {
   const unknown: string[] = [];
   const went: string[] = [];
   for (const file of Array.from(e.dataTransfer?.files ?? [])) {
+    if (file.name.toLowerCase().endsWith('.pmtiles')) {
+      await loadBasemap(file);
+      went.push(`${file.name} → basemap`);
+      continue;
+    }
     if (isBinary(file.name)) {
       // Binary layers (Zipped Shapefile, .osm.pbf) are read by the core once it reads them.
       const p = placeFile({ name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) });
@@ -466,12 +509,32 @@ document.addEventListener('drop', async (e) => {
   }
   setStatus([went.length ? `Placed ${went.join(', ')}: check the list and move a file if it is wrong.` : '',
     unknown.length ? `Could not place ${unknown.join('; ')}: use the pickers.` : ''].filter(Boolean).join(' '));
-  if (went.length) schedule();
+  if (went.some((w) => !w.endsWith('→ basemap'))) schedule();
 });
+
+// ---------- basemap ----------
+
+async function loadBasemap(file: File | null) {
+  const info = $('basemap-info');
+  try {
+    const b = await map.setBasemap(file);
+    info.textContent = b ? `${b.name}: ${b.kind} tiles, zoom ${b.minZoom}–${b.maxZoom}${b.kind === 'vector' ? ` (${b.layers.join(', ')})` : ''}` : 'optional: a .pmtiles archive of your area';
+    $('basemap-clear').hidden = !b;
+    document.body.dataset.basemap = b ? b.kind : '';
+    if (b && !view) map.map.fitBounds(b.bounds, { duration: 0 });
+  } catch (e) {
+    info.textContent = `${file?.name ?? ''}: ${(e as Error).message}`;
+    document.body.dataset.basemap = 'failed';
+  }
+}
+const basemapInput = $<HTMLInputElement>('file-basemap');
+basemapInput.addEventListener('change', () => { const f = basemapInput.files?.[0]; if (f) loadBasemap(f); });
+$('basemap-clear').addEventListener('click', () => { basemapInput.value = ''; loadBasemap(null); });
 
 // Exposed for the end-to-end tests and for planners who script the page.
 (window as unknown as Record<string, unknown>).catchwalk = {
   map: map.map,
+  scaleBar: () => map.lastScale,
   select,
   homes: () => view?.homes.map((h) => ({ id: h.id, at: h.at, status: h.status, schoolId: h.schoolId })) ?? [],
   catchmentsCsv: () => view && catchmentsCsv(view),
@@ -480,6 +543,8 @@ document.addEventListener('drop', async (e) => {
 
 renderLayerList();
 renderLegend();
+// On a small screen the legend starts folded, so the town is not under it on first view.
+if ($('map').clientWidth < 900) $('legend').classList.add('folded');
 setState('starting');
 engine.start().then(() => {
   settings.init(engine.defaultConfig, engine.ruleSets);

@@ -14,6 +14,8 @@ import {
   deficitColor,
   deviceImage,
 } from './palette';
+import { addBasemap, removeBasemap, type BasemapInfo } from './basemap';
+import { GLYPHS_URL, LABEL_FONT, registerGlyphs } from './labels';
 import type { View } from './model';
 import type { Feature, FeatureCollection } from './types';
 
@@ -34,10 +36,12 @@ export class AuditMap {
   private schoolMarkers: maplibregl.Marker[] = [];
 
   constructor(container: HTMLElement, private events: MapEvents) {
+    registerGlyphs();
     this.map = new maplibregl.Map({
       container,
       style: {
         version: 8,
+        glyphs: GLYPHS_URL,
         sources: {},
         layers: [{ id: 'paper', type: 'background', paint: { 'background-color': PAPER } }],
       },
@@ -58,7 +62,7 @@ export class AuditMap {
       const { data } = deviceImage(d.key, 40);
       m.addImage(`dev-${d.key}`, data, { pixelRatio: 2 });
     }
-    for (const id of ['catchments', 'streets', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home'])
+    for (const id of ['catchments', 'streets', 'street-names', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home', 'found'])
       m.addSource(id, { type: 'geojson', data: data(empty()) });
     m.addSource('homes', {
       type: 'geojson',
@@ -120,6 +124,15 @@ export class AuditMap {
       filter: foot as maplibregl.FilterSpecification,
       paint: { 'line-color': PATH_COLOR, 'line-width': 2, 'line-dasharray': [2, 1.5] },
     });
+    // What the find box found: a street drawn over, a point ringed.
+    m.addLayer({
+      id: 'found-line',
+      type: 'line',
+      source: 'found',
+      filter: ['!=', ['geometry-type'], 'Point'],
+      layout: { 'line-cap': 'round', 'line-join': 'round' },
+      paint: { 'line-color': '#d49a2a', 'line-width': 8, 'line-opacity': 0.55 },
+    });
     // The selected home's routes, drawn safe (widest, faint) under recommended under shortest.
     const routePaint: [string, Record<string, unknown>][] = [
       ['shortest', { 'line-color': ROUTE_STYLE.shortest.color, 'line-width': 3, 'line-dasharray': [1.5, 1.2], 'line-opacity': 0.85 }],
@@ -135,6 +148,23 @@ export class AuditMap {
         layout: { 'line-cap': 'round', 'line-join': 'round' },
         paint: paint as maplibregl.LineLayerSpecification['paint'],
       });
+    // Street names along the lines, where they fit (MapLibre drops a label that collides).
+    m.addLayer({
+      id: 'street-names',
+      type: 'symbol',
+      source: 'street-names',
+      minzoom: 14.5,
+      layout: {
+        'symbol-placement': 'line',
+        'text-field': ['get', 'name'],
+        'text-font': LABEL_FONT,
+        'text-size': ['interpolate', ['linear'], ['zoom'], 15, 11, 18, 14],
+        'text-max-angle': 35,
+        'symbol-spacing': 280,
+        'text-padding': 4,
+      },
+      paint: { 'text-color': '#26383a', 'text-halo-color': 'rgba(255, 253, 248, 0.95)', 'text-halo-width': 2 },
+    });
     m.addLayer({
       id: 'hotspots',
       type: 'circle',
@@ -194,6 +224,13 @@ export class AuditMap {
       type: 'circle',
       source: 'sel-home',
       paint: { 'circle-radius': 10, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': '#1b5fa7', 'circle-stroke-width': 3 },
+    });
+    m.addLayer({
+      id: 'found-pt',
+      type: 'circle',
+      source: 'found',
+      filter: ['==', ['geometry-type'], 'Point'],
+      paint: { 'circle-radius': 14, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': '#d49a2a', 'circle-stroke-width': 4 },
     });
     m.addLayer({
       id: 'qa',
@@ -306,6 +343,24 @@ export class AuditMap {
     }
   }
 
+  /** The planner's street names, drawn along their streets. */
+  async setStreetNames(fc: FeatureCollection) {
+    await this.loaded;
+    this.set('street-names', fc);
+  }
+
+  /** Marks what the find box found (or clears it with an empty list). */
+  showFound(features: Feature[]) {
+    this.set('found', { type: 'FeatureCollection', features });
+  }
+
+  /** Draws the planner's PMTiles archive as the basemap, under every audit layer. */
+  async setBasemap(file: File | null): Promise<BasemapInfo | null> {
+    await this.loaded;
+    if (!file) { removeBasemap(this.map); return null; }
+    return addBasemap(this.map, file, 'catchments-fill');
+  }
+
   /** Draws routes (and a ring on the home when one is selected). */
   showRoutes(routes: Feature[], home: [number, number] | null) {
     this.set('sel-routes', { type: 'FeatureCollection', features: routes });
@@ -335,9 +390,53 @@ export class AuditMap {
       if (this.map.getLayer(id)) this.map.setLayoutProperty(id, 'visibility', hide ? 'none' : 'visible');
   }
 
+  /** The map as a PNG, with a scale bar and a north arrow drawn on it (for the report). */
   image(): string {
-    return this.map.getCanvas().toDataURL('image/png');
+    const src = this.map.getCanvas();
+    const c = document.createElement('canvas');
+    c.width = src.width;
+    c.height = src.height;
+    const g = c.getContext('2d');
+    if (!g) return src.toDataURL('image/png');
+    g.drawImage(src, 0, 0);
+    const k = src.width / Math.max(1, this.map.getContainer().clientWidth);
+    // Scale: metres per CSS pixel at the centre (512-pixel world at zoom 0, Web Mercator).
+    const lat = this.map.getCenter().lat;
+    const mPerPx = (40075016.686 * Math.cos((lat * Math.PI) / 180)) / (512 * 2 ** this.map.getZoom());
+    const nice = [10, 20, 50, 100, 200, 250, 500, 1000, 2000, 5000, 10000].filter((m) => m / mPerPx <= 160).pop() ?? 10;
+    const w = (nice / mPerPx) * k;
+    // Marks drawn half as large again: the report shows the image scaled down.
+    const u = k * 1.5;
+    const x = 16 * u, y = src.height - 18 * u;
+    g.fillStyle = 'rgba(255, 253, 248, 0.9)';
+    g.fillRect(x - 8 * u, y - 24 * u, w + 16 * u + 60 * u, 34 * u);
+    g.strokeStyle = '#1e2a2b';
+    g.lineWidth = 2 * u;
+    g.beginPath();
+    g.moveTo(x, y - 6 * u); g.lineTo(x, y); g.lineTo(x + w, y); g.lineTo(x + w, y - 6 * u);
+    g.stroke();
+    g.fillStyle = '#1e2a2b';
+    g.font = `${12 * u}px sans-serif`;
+    g.fillText(nice >= 1000 ? `${nice / 1000} km` : `${nice} m`, x + w + 8 * u, y);
+    // North arrow, turned with the map's bearing.
+    const cx = src.width - 28 * u, cy = 34 * u;
+    g.save();
+    g.fillStyle = 'rgba(255, 253, 248, 0.9)';
+    g.beginPath(); g.arc(cx, cy, 20 * u, 0, 2 * Math.PI); g.fill();
+    g.translate(cx, cy);
+    g.rotate((-this.map.getBearing() * Math.PI) / 180);
+    g.fillStyle = '#1e2a2b';
+    g.beginPath(); g.moveTo(0, -14 * u); g.lineTo(7 * u, 8 * u); g.lineTo(0, 4 * u); g.lineTo(-7 * u, 8 * u); g.closePath(); g.fill();
+    g.font = `bold ${10 * u}px sans-serif`;
+    g.textAlign = 'center';
+    g.fillText('N', 0, 19 * u);
+    g.restore();
+    this.lastScale = { metres: nice, px: w / k };
+    return c.toDataURL('image/png');
   }
+
+  /** The last report image's scale bar: the metres it stands for and its length in CSS pixels. */
+  lastScale = { metres: 0, px: 0 };
 }
 
 /** What a popup says about a hotspot, a crossing point or a network check. */
