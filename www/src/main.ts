@@ -94,7 +94,7 @@ function renderLayerList() {
     clear?.addEventListener('click', () => { setFile(key, null); schedule(); });
     const why = placed.get(key);
     let move: HTMLElement | null = null;
-    if (f) {
+    if (f && why) {
       const sel = el('select', { class: 'move', title: 'move this file to another layer', 'aria-label': `move ${f.name} to another layer` },
         el('option', { value: '' }, 'move to…'),
         ...LAYER_KEYS.filter((k) => k !== key).map((k) => el('option', { value: k }, LAYER_INFO[k].label))) as HTMLSelectElement;
@@ -105,7 +105,7 @@ function renderLayerList() {
       el('span', { class: 'lname' }, info.label, info.required ? el('span', { class: 'req', title: 'required' }, ' *') : null),
       el('span', { class: 'fname', title: f?.name ?? '' }, f ? f.name : info.required ? 'required' : 'optional'),
       input, pick, clear,
-      f ? el('div', { class: 'placed' }, why ? el('span', { class: 'why' }, why.why) : el('span'), move) : null);
+      f && why ? el('div', { class: 'placed' }, el('span', { class: 'why' }, why.why), move) : null);
   }));
 }
 
