@@ -101,6 +101,16 @@ test('first use: the map goes to the planner\'s district, files land by content'
   assert.match(await page.locator('[data-layer="streets"] .why').innerText(), /8 lines/);
   await page.waitForTimeout(200);
   assertFrames(await viewOf(page), BOUNDS, 'district by drag-and-drop');
+  // Its street names are drawn once the map is close enough.
+  await page.evaluate(() => window.catchwalk.map.jumpTo({ center: [-128.4966, -38.1973], zoom: 16.5 }));
+  const names = await page.evaluate(() => new Promise((r) => {
+    const m = window.catchwalk.map;
+    m.once('idle', () => r([...new Set(m.queryRenderedFeatures({ layers: ['street-names'] }).map((f) => f.properties.name))]));
+    m.triggerRepaint();
+  }));
+  const district = JSON.parse(districtFiles().streets.text).features.map((f) => f.properties.name);
+  assert.ok(names.length >= 2 && names.every((x) => district.includes(x)), `the district's street names: ${names.join(', ')}`);
+  await page.click('#fit-all');
   await page.screenshot({ path: join(shots, '12-district-dropped.png') });
 
   // The planner moves a file: crossings and catchments swap, then back; each move re-audits.

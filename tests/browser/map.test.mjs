@@ -8,6 +8,7 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
 import { serve } from '../../www/serve.mjs';
 
@@ -152,6 +153,7 @@ test('a laptop screen (1366 x 768): the legend starts folded and the town is in 
   await page.goto(base);
   await waitAudits(page, 1);
   assert.ok(await page.evaluate(() => document.getElementById('legend').classList.contains('folded')), 'the legend is folded');
+  await page.screenshot({ path: join(shots, '17-laptop-1366-first-view.png') });
   const v = await page.evaluate(() => { const b = window.catchwalk.map.getBounds(); return [b.getWest(), b.getSouth(), b.getEast(), b.getNorth()]; });
   const pts = demoStreets.features.flatMap((f) => f.geometry.coordinates);
   for (const [lon, lat] of pts) assert.ok(lon >= v[0] && lon <= v[2] && lat >= v[1] && lat <= v[3], `the whole town is in view (${lon}, ${lat})`);
@@ -164,10 +166,25 @@ test('a laptop screen (1366 x 768): the legend starts folded and the town is in 
   await page.keyboard.press('Enter');
   await page.waitForSelector('#catchment-figures');
   await page.waitForTimeout(400);
-  await page.screenshot({ path: join(shots, '17-laptop-1366.png') });
+  await page.screenshot({ path: join(shots, '17-laptop-1366-find-school.png') });
   await page.click('#legend-toggle');
   await page.screenshot({ path: join(shots, '18-laptop-legend-open.png') });
   assert.deepEqual(leaks, [], 'no request leaves 127.0.0.1');
+  assert.deepEqual(errors, [], 'no errors in the page');
+  await page.context().close();
+});
+
+test('single-file build: street names from the inlined glyphs', async () => {
+  const { page, leaks, errors } = await guardedPage(browser);
+  await page.goto(pathToFileURL(join(root, 'dist', 'catchwalk.html')).href);
+  await page.waitForFunction(() => document.body.dataset.audit === 'idle');
+  await page.click('#demo');
+  await waitAudits(page, 1);
+  await page.evaluate(() => window.catchwalk.map.jumpTo({ center: [-35.0, 42.003], zoom: 16 }));
+  await idle(page);
+  const labels = await page.evaluate(() => [...new Set(window.catchwalk.map.queryRenderedFeatures({ layers: ['street-names'] }).map((f) => f.properties.name))]);
+  assert.ok(labels.length >= 3 && labels.every((n) => STREET_NAMES.has(n)), `street names drawn from the single file: ${labels.join(', ')}`);
+  assert.deepEqual(leaks, [], 'no request leaves the machine');
   assert.deepEqual(errors, [], 'no errors in the page');
   await page.context().close();
 });
