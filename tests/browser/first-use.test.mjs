@@ -141,3 +141,31 @@ test('first use: the map goes to the planner\'s district, files land by content'
   assert.deepEqual(errors, [], 'no errors in the page');
   await page.context().close();
 });
+
+test('placement by content: files as municipal and OpenStreetMap exports come', async () => {
+  const { page, errors } = await guardedPage(browser);
+  await page.goto(base);
+  await page.waitForFunction(() => window.catchwalk?.placeFile);
+  const fc = (features) => JSON.stringify({ type: 'FeatureCollection', features });
+  const pt = (properties, c = [-128.5, -38.2]) => ({ type: 'Feature', properties, geometry: { type: 'Point', coordinates: c } });
+  const sq = (properties) => ({ type: 'Feature', properties, geometry: { type: 'Polygon', coordinates: [[[-128.5, -38.2], [-128.49, -38.2], [-128.49, -38.19], [-128.5, -38.2]]] } });
+  const cases = [
+    ['ways.geojson', fc([{ type: 'Feature', properties: { highway: 'residential', name: 'Kelp Row' }, geometry: { type: 'MultiLineString', coordinates: [[[-128.5, -38.2], [-128.49, -38.2]]] } }]), 'streets'],
+    ['nodes.geojson', fc([pt({ highway: 'crossing', crossing: 'marked' }), pt({ highway: 'traffic_signals' })]), 'crossings'],
+    ['amenity.geojson', fc([sq({ amenity: 'school', name: 'Gull Bay School' })]), 'schools'],
+    ['sites.geojson', fc([pt({ name: 'Gull Bay School', id: 'G1' }), pt({ name: 'Reef School', id: 'G2' })]), 'schools'],
+    ['data.geojson', fc([pt({ pupils: 2, id: 'A' }), pt({ pupils: 1, id: 'B' })]), 'homes'],
+    ['zones_final.geojson', fc([sq({ school_id: 'G1' }), sq({ school_id: 'G2' })]), 'catchments'],
+    ['table.csv', 'ID,Longitude,Latitude,Children\nA,-128.5,-38.2,1\n', 'homes'],
+    ['list.csv', 'id,street,number\n1,Kelp Row,4\n', null],
+    ['fields.json', JSON.stringify({ base: 'plain', homes: { children: 'KIDS' } }), 'mapping'],
+    ['Centerlines_2024.zip', null, null],
+    ['region.osm.pbf', null, 'streets'],
+  ];
+  for (const [name, text, layer] of cases) {
+    const got = await page.evaluate(([n, t]) => window.catchwalk.placeFile(t === null ? { name: n, bytes: new Uint8Array([1, 2, 3]) } : { name: n, text: t }), [name, text]);
+    assert.equal(got.layer, layer, `${name} goes to ${layer}: ${got.why}`);
+  }
+  assert.deepEqual(errors, []);
+  await page.context().close();
+});

@@ -62,7 +62,7 @@ export class FindBox {
   setIndex(index: Found[]) {
     this.index = index;
     this.input.disabled = !index.length;
-    this.input.placeholder = index.length ? 'Find a street, school, home…' : 'Find: run an audit first';
+    this.input.placeholder = index.length ? 'Find a street, school…' : 'Find: run an audit first';
   }
 
   private update() {

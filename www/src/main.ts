@@ -535,6 +535,7 @@ $('basemap-clear').addEventListener('click', () => { basemapInput.value = ''; lo
 (window as unknown as Record<string, unknown>).catchwalk = {
   map: map.map,
   scaleBar: () => map.lastScale,
+  placeFile,
   select,
   homes: () => view?.homes.map((h) => ({ id: h.id, at: h.at, status: h.status, schoolId: h.schoolId })) ?? [],
   catchmentsCsv: () => view && catchmentsCsv(view),
