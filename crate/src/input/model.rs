@@ -138,9 +138,12 @@ pub enum Device {
     None,
     /// Marked crosswalk without further control.
     Marked,
+    /// Yield (give-way) sign on the crossed leg: drivers must slow and yield but need not
+    /// stop. Not a stop sign: 67 Pa. Code § 447.4(a)(2) exempts only signals and stop signs.
+    Yield,
     /// Marked crosswalk with a pedestrian-activated flashing beacon.
     Beacon,
-    /// Stop or yield sign on the crossed leg (minor-leg control).
+    /// Stop sign on the crossed leg (minor-leg control).
     Stop,
     /// All-way stop.
     AllWayStop,

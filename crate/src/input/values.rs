@@ -8,7 +8,7 @@ pub const SIDEWALK_VALUES: &str = "both, left, right, none, unknown, separate";
 pub const BOOL_VALUES: &str = "true, false, yes, no, 1, 0";
 pub const STUDENTS_VALUES: &str = "elementary, secondary";
 pub const CONTROL_VALUES: &str =
-    "signal, all_way_stop, stop, marked, guard, refuge, raised, beacon, none (join several with ';')";
+    "signal, all_way_stop, stop, yield, marked, guard, refuge, raised, beacon, none (join several with ';')";
 
 /// Reads a road class name (case-insensitive).
 pub fn parse_class(t: &str) -> Option<RoadClass> {
@@ -119,6 +119,7 @@ pub fn parse_control(t: &str) -> (Control, Vec<String>) {
             "signal" => Device::Signal,
             "all_way_stop" => Device::AllWayStop,
             "stop" => Device::Stop,
+            "yield" | "give_way" => Device::Yield,
             "marked" => Device::Marked,
             "beacon" => Device::Beacon,
             "none" => Device::None,
@@ -285,6 +286,9 @@ mod tests {
             assert_eq!(scope_of(c.device), scope, "{t}");
         }
         assert_eq!(parse_control("guard").0.guard, Some(vec![]));
+        // A yield sign is its own device, weaker than a stop sign.
+        assert_eq!(parse_control("yield").0.device, Device::Yield);
+        assert_eq!(parse_control("yield;stop").0.device, Device::Stop);
         assert_eq!(parse_control("marked;zebra").1, vec!["zebra".to_string()]);
     }
 
