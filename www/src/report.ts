@@ -6,8 +6,9 @@ import type { View } from './model';
 import { COLUMNS } from './table';
 
 const SOURCES = [
-  'Walking speed 1.07 m/s (3.5 ft/s): the usual pedestrian signal-timing value (common practice).',
-  'Daily activity: WHO 2020 guidelines on physical activity and sedentary behaviour — an average of 60 minutes a day of moderate-to-vigorous activity for ages 5–17.',
+  'Walking time and active minutes at 1.22 m/s (4.0 ft/s): the Highway Capacity Manual walking speed for pedestrians where few are elderly, and the design speed Knoblauch et al. 1996 recommend for pedestrians under 65 (both from memory; not a child-specific figure). Crossing times and waits at 1.07 m/s (3.5 ft/s), the signal-timing design value.',
+  'Daily activity: WHO 2020 guidelines on physical activity and sedentary behaviour — an average of 60 minutes a day of moderate-to-vigorous activity for ages 5–17. Counting every walking minute towards it assumes the walk is of moderate intensity (our assumption).',
+  'Our assumptions, from no source: exposure beside a street without sidewalk grows linearly with its traffic, without bound; the crossing exposure uses the HCM probability of meeting traffic, which saturates at 7.3 times the reference crossing on busy roads.',
   'Waiting at uncontrolled crossings: Highway Capacity Manual gap-acceptance method for pedestrians at unsignalised crossings.',
   'Severity against vehicle speed: published logistic fits of pedestrian fatality risk (see the core documentation for the table in use and its source).',
   'Street network, crossings, schools, homes and catchments: the layers loaded by the planner (listed below).',

@@ -68,13 +68,44 @@ pub fn parse_bool(t: &str) -> Option<bool> {
     }
 }
 
-/// Reads `elementary`/`secondary` (also `primary`, `middle`, `high`).
+/// Reads `elementary`/`secondary` (also `primary`, `high`; `middle` is elementary: a middle
+/// school usually teaches grade 6, an elementary grade under 67 Pa. Code § 447.2, and the
+/// youngest pupils decide).
 pub fn parse_students(t: &str) -> Option<Students> {
     match t.trim().to_ascii_lowercase().as_str() {
-        "elementary" | "primary" => Some(Students::Elementary),
-        "secondary" | "middle" | "high" => Some(Students::Secondary),
+        "elementary" | "primary" | "middle" => Some(Students::Elementary),
+        "secondary" | "high" => Some(Students::Secondary),
         _ => None,
     }
+}
+
+/// The kind of pupil a school's grades make it: 67 Pa. Code § 447.2 counts kindergarten to
+/// grade six as elementary; the lowest grade taught decides, so a 6-8 middle school is
+/// elementary and a 7-12 school secondary. Reads `K-5`, `PK-8`, `6-8`, `9;10;11;12`, `7`.
+///
+/// ```
+/// use catchwalk::input::{values::students_of_grades, Students};
+/// assert_eq!(students_of_grades("K-5"), Some(Students::Elementary));
+/// assert_eq!(students_of_grades("6-8"), Some(Students::Elementary));
+/// assert_eq!(students_of_grades("7-12"), Some(Students::Secondary));
+/// assert_eq!(students_of_grades("none"), None);
+/// ```
+pub fn students_of_grades(t: &str) -> Option<Students> {
+    let lowest = t
+        .split(|c: char| c == '-' || c == ';' || c == ',' || c == '–' || c.is_whitespace())
+        .filter_map(|g| {
+            let g = g.trim().to_ascii_uppercase();
+            match g.as_str() {
+                "K" | "PK" | "TK" | "KG" | "P" => Some(0),
+                _ => g.parse::<u32>().ok().filter(|n| *n <= 13),
+            }
+        })
+        .min()?;
+    Some(if lowest <= 6 {
+        Students::Elementary
+    } else {
+        Students::Secondary
+    })
 }
 
 /// Reads a whole number (also `2.0`); `None` for fractions, text or out-of-range values.

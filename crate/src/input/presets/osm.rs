@@ -324,6 +324,10 @@ pub fn crossing(props: &Props) -> Option<(Control, ControlScope)> {
 
 /// A school's students from `isced:level` (0-1 elementary, 2-3 secondary), default elementary.
 pub fn students(props: &Props) -> Students {
+    // `grades` (US mapping practice, e.g. `K-5`) decides when readable.
+    if let Some(s) = tag(props, "grades").and_then(crate::input::values::students_of_grades) {
+        return s;
+    }
     match tag(props, "isced:level") {
         Some(v) if v.contains('2') || v.contains('3') => {
             if v.contains('1') || v.contains('0') {
