@@ -58,6 +58,7 @@ fn four_way_with_home(crossings: Option<String>, home: [f64; 2]) -> AuditOutput 
         homes: fc(&[point(r#""id":"h1","children":2"#, home)]),
         homes_format: HomesFormat::GeoJson,
         catchments: None,
+        crashes: None,
         preset: Preset::Plain,
         mapping: None,
     };

@@ -151,7 +151,7 @@ fn fixture() -> (Layers, PedGraph) {
             students: Students::Elementary,
         }],
         homes: vec![home("H1", 1), home("H2", 2), home("H3", 1)],
-        catchments: vec![],
+        ..Layers::default()
     };
     (layers, g)
 }

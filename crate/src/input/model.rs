@@ -255,4 +255,10 @@ pub struct Layers {
     pub schools: Vec<School>,
     pub homes: Vec<Home>,
     pub catchments: Vec<Catchment>,
+    /// Rail grade crossings walkers use (from the crossings layer).
+    #[serde(default)]
+    pub rail_crossings: Vec<super::observed::RailCrossing>,
+    /// Observed crashes (the optional crashes layer).
+    #[serde(default)]
+    pub crashes: Vec<super::observed::Crash>,
 }

@@ -38,6 +38,10 @@ pub enum Verdict {
 pub enum Target {
     Crossing,
     Stretch,
+    /// A rail grade crossing on the route (see `score::observed`).
+    RailCrossing,
+    /// Crash records joined to the route's crossings and sides (see `score::observed`).
+    CrashHistory,
 }
 
 /// A feature of a crossing's control, as rules name it.
@@ -251,6 +255,23 @@ pub struct Rule {
     /// The route must walk more than this along matching sides before the rule fires.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub min_length_m: Option<f64>,
+    // Rail crossing conditions.
+    /// At least this many tracks.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub tracks_ge: Option<u32>,
+    /// The rule does not fire where flashing lights, gates or a crossing guard protect it.
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub unless_rail_protected: bool,
+    // Crash history conditions.
+    /// At least this many crashes involving a pedestrian joined to the route.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub pedestrian_crashes_ge: Option<u32>,
+    /// Only crashes within this many years before the layer's latest crash date count.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub crash_years: Option<f64>,
+    /// Only crashes inside the school travel windows count (a crash with no time counts).
+    #[serde(default, skip_serializing_if = "std::ops::Not::not")]
+    pub crashes_in_school_windows: bool,
 }
 
 /// A named rule set.
