@@ -89,6 +89,7 @@ pub fn device_name(d: Device) -> &'static str {
     match d {
         Device::None => "none",
         Device::Marked => "marked",
+        Device::Yield => "yield",
         Device::Beacon => "beacon",
         Device::Stop => "stop",
         Device::AllWayStop => "all_way_stop",

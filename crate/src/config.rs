@@ -59,8 +59,12 @@ impl Default for RouteConfig {
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(default, deny_unknown_fields)]
 pub struct BenefitConfig {
-    /// A child's walking speed: 3.5 ft/s = 1.07 m/s, the usual signal-timing value
-    /// (common practice).
+    /// Walking speed for walking time and active minutes: 1.22 m/s (4.0 ft/s), the Highway
+    /// Capacity Manual's walking speed for pedestrians where under 20 % are elderly (HCM
+    /// 2010, from memory) and the design speed Knoblauch, Pietrucha & Nitzburg 1996 (TRR
+    /// 1538) recommend for pedestrians under 65 (from memory). Not a child-specific figure:
+    /// children's speeds vary with age and company. Crossing times and HCM waits keep the
+    /// signal-timing 3.5 ft/s (`risk.walk_mps`).
     pub walking_speed_mps: f64,
     /// Network distance that defines the walk zone (common practice: about one mile).
     pub walk_zone_m: f64,
@@ -77,7 +81,7 @@ pub struct BenefitConfig {
 impl Default for BenefitConfig {
     fn default() -> Self {
         BenefitConfig {
-            walking_speed_mps: 1.07,
+            walking_speed_mps: 1.22,
             walk_zone_m: 1600.0,
             guideline_min_per_day: 60.0,
             walking_met: 3.0,

@@ -14,6 +14,7 @@ pub enum LayerName {
     Schools,
     Homes,
     Catchments,
+    Crashes,
     Mapping,
     Config,
 }
@@ -26,6 +27,7 @@ impl fmt::Display for LayerName {
             LayerName::Schools => "schools",
             LayerName::Homes => "homes",
             LayerName::Catchments => "catchments",
+            LayerName::Crashes => "crashes",
             LayerName::Mapping => "mapping",
             LayerName::Config => "config",
         };

@@ -26,6 +26,8 @@ struct PageLayers {
     #[serde(default)]
     catchments: Option<String>,
     #[serde(default)]
+    crashes: Option<String>,
+    #[serde(default)]
     preset: Preset,
     #[serde(default)]
     mapping: Option<String>,
@@ -40,6 +42,7 @@ impl From<PageLayers> for RawLayers {
             homes: p.homes,
             homes_format: p.homes_format,
             catchments: p.catchments,
+            crashes: p.crashes,
             preset: p.preset,
             mapping: p.mapping,
         }
@@ -163,7 +166,7 @@ struct AuditDoc<'a> {
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
-/// catchments?, preset?, mapping?}` with each layer as text; `config_json`: a config
+/// catchments?, crashes?, preset?, mapping?}` with each layer as text; `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
 /// catchments and hotspots CSV tables, routes, QA, centrelines, hotspots, the validated layers and the warnings. An error comes
 /// back as `{message, at}` JSON.
@@ -190,6 +193,8 @@ pub fn audit(
             "catchments": out.layers.catchments.iter()
                 .map(|c| json!({ "feature": c.feature, "school_id": c.school_id }))
                 .collect::<Vec<_>>(),
+            "crashes": out.layers.crashes,
+            "rail_crossings": out.layers.rail_crossings,
         }),
         warnings: &out.warnings,
     };

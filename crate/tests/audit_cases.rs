@@ -58,6 +58,7 @@ fn four_way_with_home(crossings: Option<String>, home: [f64; 2]) -> AuditOutput 
         homes: fc(&[point(r#""id":"h1","children":2"#, home)]),
         homes_format: HomesFormat::GeoJson,
         catchments: None,
+        crashes: None,
         preset: Preset::Plain,
         mapping: None,
     };
@@ -106,8 +107,8 @@ fn walking_straight_on_across_a_side_street_crosses_it_once_uncontrolled() {
     assert_eq!(num(&row, "shortest_arterial_crossings"), 0.0);
     assert!((num(&row, "shortest_along_31_50_m") - expected).abs() < 0.02);
     assert_eq!(num(&row, "shortest_no_sidewalk_m"), 0.0);
-    // Walking time at 1.07 m/s.
-    assert!((num(&row, "shortest_walking_time_min") - (expected + 7.2) / 1.07 / 60.0).abs() < 0.01);
+    // Walking time at the default 1.22 m/s (4.0 ft/s; was 1.07 m/s before issue 9's item 11).
+    assert!((num(&row, "shortest_walking_time_min") - (expected + 7.2) / 1.22 / 60.0).abs() < 0.01);
 }
 
 #[test]

@@ -155,7 +155,7 @@ fn grid_layers(
             students: Students::Elementary,
         }],
         homes,
-        catchments: vec![],
+        ..Layers::default()
     }
 }
 

@@ -24,10 +24,11 @@ const LAYER_INFO: Record<LayerKey, { label: string; required: boolean; accept: s
   schools: { label: 'Schools', required: true, accept: '.geojson,.json' },
   homes: { label: 'Homes', required: true, accept: '.geojson,.json,.csv' },
   catchments: { label: 'Catchments', required: false, accept: '.geojson,.json' },
+  crashes: { label: 'Crashes (observed)', required: false, accept: '.geojson,.json' },
   mapping: { label: 'Field mapping', required: false, accept: '.json' },
 };
 
-const files: Record<LayerKey, LayerFile | null> = { streets: null, crossings: null, schools: null, homes: null, catchments: null, mapping: null };
+const files: Record<LayerKey, LayerFile | null> = { streets: null, crossings: null, schools: null, homes: null, catchments: null, crashes: null, mapping: null };
 const parsed = new Map<LayerKey, FeatureCollection | null>();
 /** Why each dropped file went where it did (absent for files chosen with a picker). */
 const placed = new Map<LayerKey, Placement>();
@@ -338,6 +339,7 @@ function layersJson(): string {
     homes: files.homes?.text,
     homes_format: files.homes?.name.toLowerCase().endsWith('.csv') ? 'csv' : 'geo_json',
     catchments: files.catchments?.text ?? null,
+    crashes: files.crashes?.text ?? null,
     preset: ($('preset') as HTMLSelectElement).value,
     mapping: files.mapping?.text ?? null,
   });

@@ -18,6 +18,7 @@ import { addBasemap, removeBasemap, type BasemapInfo } from './basemap';
 import { GLYPHS_URL, LABEL_FONT, registerGlyphs } from './labels';
 import type { View } from './model';
 import type { Feature, FeatureCollection } from './types';
+import { addCrashLayer, crashFeatures, crashPopupLines } from './crashes';
 
 const empty = (): FeatureCollection => ({ type: 'FeatureCollection', features: [] });
 type SourceData = maplibregl.GeoJSONSourceSpecification['data'];
@@ -238,9 +239,10 @@ export class AuditMap {
       source: 'qa',
       paint: { 'circle-radius': 6, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': QA_COLOR, 'circle-stroke-width': 2.5 },
     });
+    addCrashLayer(m, data);
 
     m.on('click', (e) => {
-      const spot = m.queryRenderedFeatures(e.point, { layers: ['hotspots', 'crossings', 'qa'] })[0];
+      const spot = m.queryRenderedFeatures(e.point, { layers: ['crashes', 'hotspots', 'crossings', 'qa'] })[0];
       if (spot) {
         new maplibregl.Popup({ closeButton: true, maxWidth: '260px' }).setLngLat(e.lngLat).setDOMContent(popupContent(spot.layer.id, spot.properties)).addTo(m);
       }
@@ -290,6 +292,7 @@ export class AuditMap {
       })),
     });
     this.set('qa', doc.qa);
+    this.set('crashes', crashFeatures(doc));
     const maxHot = Math.max(1e-9, ...view.hotspots.map((f) => Number(f.properties['product'] ?? 0)));
     this.set('hotspots', {
       type: 'FeatureCollection',
@@ -462,6 +465,9 @@ function popupContent(layer: string, p: Record<string, unknown>): HTMLElement {
     line('Risk of the edge', Number(p['risk']).toFixed(2));
     line('Children × risk', Number(p['product']).toFixed(1));
     if (p['wait_s'] !== null && p['wait_s'] !== undefined) line('Average wait', `${Math.round(Number(p['wait_s']))} s (level of service ${p['los']})`);
+    if (Number(p['crashes'] ?? 0) > 0) line('Observed crashes', `${p['crashes']} (${p['crashes_pedestrian']} with a pedestrian, ${p['crashes_ksi']} killed or seriously injured)`);
+  } else if (layer === 'crashes') {
+    for (const [k, v] of crashPopupLines(p)) line(k, v);
   } else if (layer === 'crossings') {
     line('Crossing', p['id']);
     line('Control', String(p['symbol']).replace(/_/g, ' ') + (p['island'] ? ' with refuge island' : ''));

@@ -89,7 +89,7 @@ export function buildView(doc: AuditDoc): View {
       reasons = ['no walking route to a school was found'];
     } else if (row?.['in_walk_zone'] === 'false') {
       status = 'beyond';
-      reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${walkZoneM} m walk zone`];
+      reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${row?.['walk_zone_m'] || walkZoneM} m walk zone`];
     } else {
       // Every verdict is the core's; the page only displays it.
       ({ status, reasons } = coreVerdict(r.recommended.properties) ?? { status: 'unsafe', reasons: ['the core gave no safe-route verdict for this route'] });

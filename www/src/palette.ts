@@ -36,7 +36,8 @@ export const ROUTE_STYLE = {
 export const DEVICES: { key: string; label: string }[] = [
   { key: 'signal', label: 'signal with walk phase' },
   { key: 'all_way_stop', label: 'all-way stop' },
-  { key: 'stop', label: 'stop / yield on the crossed leg' },
+  { key: 'stop', label: 'stop sign on the crossed leg' },
+  { key: 'yield', label: 'yield sign on the crossed leg' },
   { key: 'beacon', label: 'flashing beacon' },
   { key: 'marked', label: 'marked crosswalk only' },
   { key: 'none', label: 'nothing (uncontrolled)' },
@@ -91,6 +92,15 @@ export function drawDevice(ctx: CanvasRenderingContext2D, key: string, s: number
       ctx.strokeStyle = '#ffffff';
       poly(4, s * 0.28, 0);
       ctx.stroke();
+      break;
+    case 'yield':
+      // A downward triangle, red rim on white: drivers yield but need not stop.
+      ctx.fillStyle = '#b3261e';
+      poly(3, s * 0.46, Math.PI / 2);
+      ctx.fill();
+      ctx.fillStyle = '#ffffff';
+      poly(3, s * 0.24, Math.PI / 2);
+      ctx.fill();
       break;
     case 'beacon':
       ctx.fillStyle = '#f2b705';

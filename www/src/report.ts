@@ -6,8 +6,9 @@ import type { View } from './model';
 import { COLUMNS } from './table';
 
 const SOURCES = [
-  'Walking speed 1.07 m/s (3.5 ft/s): the usual pedestrian signal-timing value (common practice).',
-  'Daily activity: WHO 2020 guidelines on physical activity and sedentary behaviour — an average of 60 minutes a day of moderate-to-vigorous activity for ages 5–17.',
+  'Walking time and active minutes at 1.22 m/s (4.0 ft/s): the Highway Capacity Manual walking speed for pedestrians where few are elderly, and the design speed Knoblauch et al. 1996 recommend for pedestrians under 65 (both from memory; not a child-specific figure). Crossing times and waits at 1.07 m/s (3.5 ft/s), the signal-timing design value.',
+  'Daily activity: WHO 2020 guidelines on physical activity and sedentary behaviour — an average of 60 minutes a day of moderate-to-vigorous activity for ages 5–17. Counting every walking minute towards it assumes the walk is of moderate intensity (our assumption).',
+  'Our assumptions, from no source: exposure beside a street without sidewalk grows linearly with its traffic, without bound; the crossing exposure uses the HCM probability of meeting traffic, which saturates at 7.3 times the reference crossing on busy roads.',
   'Waiting at uncontrolled crossings: Highway Capacity Manual gap-acceptance method for pedestrians at unsignalised crossings.',
   'Severity against vehicle speed: published logistic fits of pedestrian fatality risk (see the core documentation for the table in use and its source).',
   'Street network, crossings, schools, homes and catchments: the layers loaded by the planner (listed below).',
@@ -49,11 +50,12 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
         .map(([k, v]) => el('tr', {}, el('th', {}, String(k)), el('td', {}, `${v} (${fmt.pct(children ? Number(v) / children : null)})`))))),
     el('h2', {}, 'Catchments'),
     table,
+    ...crashSection(view),
     el('h2', {}, 'Charts'),
     el('div', { class: 'report-charts' }, ...Object.entries(r.charts).map(([caption, src]) => el('figure', {}, el('img', { src, alt: caption }), el('figcaption', {}, caption)))),
     el('h2', {}, 'Method'),
     el('p', {}, 'Streets are split into their two sides; corners join at every junction and each leg of a junction is a crossing with the control the crossings layer gives it. Every home is routed to its school twice: the shortest walk, and a recommended walk that trades length against risk (each risk point is worth a set number of metres) within a detour cap. Each route is audited for its length, walking time, the crossings it makes and what controls them, and the distance walked beside traffic or without a sidewalk. Risk is an index, not a prediction of injuries.'),
-    el('p', {}, `Settings: walk zone ${cfg.benefit?.walk_zone_m} m, walking speed ${cfg.benefit?.walking_speed_mps} m/s, detour cap ${cfg.route?.detour_cap}×, ${cfg.route?.metres_per_risk_point} m per risk point.`),
+    el('p', {}, `Settings: walk zone ${cfg.benefit?.walk_zone_m} m, walking speed ${cfg.benefit?.walking_speed_mps} m/s (crossings and waits at ${cfg.risk?.walk_mps} m/s), detour cap ${cfg.route?.detour_cap}×, ${cfg.route?.metres_per_risk_point} m per risk point.`),
     el('p', {}, `Safe route: the shortest route that no rule of the rule set “${String((cfg.score?.rules as Record<string, unknown> | undefined)?.['name'] ?? '')}” flags; a home has one when it lies inside the walk zone. Hazardous: a hazardous rule fires on the recommended route and the home has no safe route.`),
     el('h2', {}, 'Sources'),
     el('ul', {}, ...SOURCES.map((s) => el('li', {}, s)), ...Object.entries(r.files).map(([k, v]) => el('li', {}, `${k}: ${v}`))),
@@ -65,4 +67,21 @@ export function buildReport(host: HTMLElement, r: ReportInput) {
         ? 'This report shows individual homes and their routes (personal data): keep it inside your organisation.'
         : 'This report shows no single home: the map leaves homes and routes out; figures are counts per catchment.')),
   );
+}
+
+/** Hotspots with observed crashes beside their modelled risk (counts only: safe to share). */
+function crashSection(view: View): HTMLElement[] {
+  const rows = view.hotspots.filter((f) => Number(f.properties['crashes'] ?? 0) > 0);
+  if (!rows.length) return [];
+  return [
+    el('h2', {}, 'Observed crashes at hotspots'),
+    el('table', { class: 'figures wide' },
+      el('thead', {}, el('tr', {}, ...['Rank', 'Where', 'Children × risk', 'Crashes', 'With a pedestrian', 'Killed or seriously injured (K, A)'].map((h) => el('th', {}, h)))),
+      el('tbody', {}, ...rows.map((f) => {
+        const p = f.properties;
+        return el('tr', {}, el('td', {}, String(p['rank'])), el('td', {}, `${p['kind'] === 'crossing' ? 'crossing of' : 'along'} ${p['street']}`),
+          el('td', {}, Number(p['product']).toFixed(1)), el('td', {}, String(p['crashes'])), el('td', {}, String(p['crashes_pedestrian'])), el('td', {}, String(p['crashes_ksi'])));
+      }))),
+    el('p', { class: 'small' }, 'Crash records are joined to the crossings and sides within 15 m; they are shown beside the modelled risk, never added to it.'),
+  ];
 }

@@ -58,12 +58,19 @@ export function homePanel(view: View, h: HomeView): HTMLElement {
     el('strong', {}, STATUS_TEXT[h.status] ?? h.status),
     h.reasons.length ? el('ul', {}, ...h.reasons.map((x) => el('li', {}, x))) : null,
   );
+  // Rules that would fire but for a fact the layers lack: the core lists what to check.
+  const checks = Array.isArray(r?.['site_checks']) ? (r?.['site_checks'] as unknown[]).map(String) : [];
+  const siteChecks = checks.length
+    ? el('div', { class: 'verdict', id: 'home-site-checks' }, el('strong', {}, 'To check on site (candidate, not counted hazardous)'),
+      el('ul', {}, ...checks.map((x) => el('li', {}, x))))
+    : null;
   return el(
     'div',
     {},
     el('h3', {}, `Home ${h.id}`),
     el('p', { class: 'muted' }, `${h.children} child${h.children === 1 ? '' : 'ren'} · school ${school?.name ?? h.schoolId ?? '–'}`),
     verdict,
+    siteChecks,
     el('p', { class: 'small muted' }, 'A home has a safe route when the shortest route that no rule of the rule set flags lies inside the walk zone (rules in Settings).'),
     table,
     dailyTable(h),

@@ -7,7 +7,8 @@ type Obj = Record<string, unknown>;
 
 const LABELS: Record<string, [string, string]> = {
   'benefit.walk_zone_m': ['Walk zone', 'm of network distance'],
-  'benefit.walking_speed_mps': ["Child's walking speed", 'm/s (1.07 = 3.5 ft/s)'],
+  'benefit.walking_speed_mps': ['Walking speed (walking time, active minutes)', 'm/s (1.22 = 4.0 ft/s)'],
+  'risk.walk_mps': ['Crossing speed (crossing time, HCM waits)', 'm/s (1.07 = 3.5 ft/s, signal timing)'],
   'route.detour_cap': ['Detour cap', '× the shortest route'],
   'route.metres_per_risk_point': ['Weight of risk', 'm of detour worth one risk point'],
   'score.walkable_share': ['Walkable catchment', 'share of children in the walk zone'],

@@ -128,9 +128,9 @@ export interface LayerFile {
   text: string;
 }
 
-export type LayerKey = 'streets' | 'crossings' | 'schools' | 'homes' | 'catchments' | 'mapping';
+export type LayerKey = 'streets' | 'crossings' | 'schools' | 'homes' | 'catchments' | 'crashes' | 'mapping';
 
-export const LAYER_KEYS: LayerKey[] = ['streets', 'crossings', 'schools', 'homes', 'catchments', 'mapping'];
+export const LAYER_KEYS: LayerKey[] = ['streets', 'crossings', 'schools', 'homes', 'catchments', 'crashes', 'mapping'];
 
 /** Messages between the page and its worker. */
 export type ToWorker =

@@ -7,7 +7,7 @@ use crate::config::BenefitConfig;
 ///
 /// ```
 /// let cfg = catchwalk::config::BenefitConfig::default();
-/// assert!((catchwalk::benefit::walking_time_s(107.0, &cfg) - 100.0).abs() < 1e-9);
+/// assert!((catchwalk::benefit::walking_time_s(122.0, &cfg) - 100.0).abs() < 1e-9);
 /// ```
 pub fn walking_time_s(walked_m: f64, cfg: &BenefitConfig) -> f64 {
     if cfg.walking_speed_mps > 0.0 {
@@ -21,15 +21,16 @@ pub fn walking_time_s(walked_m: f64, cfg: &BenefitConfig) -> f64 {
 ///
 /// ```
 /// let cfg = catchwalk::config::BenefitConfig::default();
-/// let m = catchwalk::benefit::active_minutes_per_day(642.0, &cfg);
-/// assert!((m - 20.0).abs() < 1e-9); // 2 x 642 m / 1.07 m/s = 1200 s
+/// let m = catchwalk::benefit::active_minutes_per_day(732.0, &cfg);
+/// assert!((m - 20.0).abs() < 1e-9); // 2 x 732 m / 1.22 m/s = 1200 s
 /// ```
 pub fn active_minutes_per_day(one_way_walked_m: f64, cfg: &BenefitConfig) -> f64 {
     2.0 * walking_time_s(one_way_walked_m, cfg) / 60.0
 }
 
 /// Share of the WHO 2020 guideline (60 minutes a day of moderate-to-vigorous activity,
-/// ages 5-17) that the walk provides.
+/// ages 5-17) that the walk provides. Counting every walking minute assumes the walk is of
+/// moderate intensity (about 3 MET or more; our assumption: a slow stroll may not be).
 ///
 /// ```
 /// let cfg = catchwalk::config::BenefitConfig::default();

@@ -92,6 +92,10 @@ struct LayerArgs {
     /// Catchment polygons carrying the school id.
     #[arg(long, value_name = "FILE")]
     catchments: Option<PathBuf>,
+    /// Observed crashes: GeoJSON Points (date, time, severity K/A/B/C/O, pedestrian,
+    /// cyclist, age); personal data, shared exports carry counts only.
+    #[arg(long, value_name = "FILE")]
+    crashes: Option<PathBuf>,
     /// How property names are read.
     #[arg(long, value_enum, default_value = "plain")]
     preset: PresetArg,
@@ -126,6 +130,7 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
         homes: read(&a.homes)?,
         homes_format,
         catchments: read_opt(&a.catchments)?,
+        crashes: read_opt(&a.crashes)?,
         preset: match a.preset {
             PresetArg::Osm => Preset::Osm,
             PresetArg::Plain => Preset::Plain,

@@ -8,7 +8,7 @@ use crate::score::plan::Plan;
 use serde_json::{json, Value};
 
 /// Score columns appended to `homes.csv`.
-pub const HOME_SCORE_COLUMNS: [&str; 11] = [
+pub const HOME_SCORE_COLUMNS: [&str; 13] = [
     "active_minutes",
     "guideline_share",
     "energy_kcal",
@@ -20,6 +20,8 @@ pub const HOME_SCORE_COLUMNS: [&str; 11] = [
     "hazard_reason",
     "longest_wait_s",
     "longest_wait_los",
+    "walk_zone_m",
+    "site_checks",
 ];
 
 /// The values of [`HOME_SCORE_COLUMNS`] for one home (blank when it has no route).
@@ -42,6 +44,8 @@ pub fn home_score_values(s: Option<&HomeScore>) -> Vec<String> {
                 .map(|l| l.as_str())
                 .unwrap_or("")
                 .to_string(),
+            round2(s.walk_zone_m).to_string(),
+            s.site_checks.join(" | "),
         ],
         Some(s) => {
             let mut v = vec![String::new(); HOME_SCORE_COLUMNS.len()];

@@ -34,6 +34,8 @@ pub fn hotspots_geojson(out: &AuditOutput) -> Value {
                     "risk": (h.risk * 1e4).round() / 1e4,
                     "product": (h.product * 1e4).round() / 1e4,
                     "wait_s": h.wait_s.map(round2), "los": h.los.map(|l| l.as_str()),
+                    "crashes": h.crashes, "crashes_pedestrian": h.crashes_pedestrian,
+                    "crashes_ksi": h.crashes_ksi,
                 },
             })
         })
@@ -59,6 +61,9 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
         "product",
         "wait_s",
         "los",
+        "crashes",
+        "crashes_pedestrian",
+        "crashes_ksi",
     ]);
     for h in &out.scores.hotspots {
         let _ = w.write_record([
@@ -76,6 +81,9 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
             format!("{:.4}", h.product),
             h.wait_s.map(|x| round2(x).to_string()).unwrap_or_default(),
             h.los.map(|l| l.as_str().to_string()).unwrap_or_default(),
+            h.crashes.to_string(),
+            h.crashes_pedestrian.to_string(),
+            h.crashes_ksi.to_string(),
         ]);
     }
     super::shareable_csv(w)

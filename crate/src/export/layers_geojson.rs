@@ -93,6 +93,8 @@ pub struct RouteVerdict<'a> {
     pub unsafe_reason: &'a str,
     pub hazardous: bool,
     pub hazard_reason: &'a str,
+    /// What a site visit must settle (rules that need a fact the layers lack).
+    pub site_checks: &'a [String],
 }
 
 /// A LineString with coordinates rounded to 7 decimals (about 1 cm): routes are drawings,
@@ -117,6 +119,7 @@ fn route_feature<'a>(
             unsafe_reason: &sc.unsafe_reason,
             hazardous: sc.hazardous,
             hazard_reason: &sc.hazard_reason,
+            site_checks: &sc.site_checks,
         }),
         _ => None,
     };

@@ -47,11 +47,13 @@ pub fn summary_json(out: &AuditOutput) -> Value {
                         })
                 })
                 .collect();
-            let in_zone: f64 = routed
-                .iter()
-                .filter(|r| crate::benefit::in_walk_zone(r.0, &out.config.benefit))
-                .map(|r| r.3)
-                .sum();
+            // The rule set's walk zone for this school's pupils, else the benefit setting.
+            let zone_m = out
+                .config
+                .score
+                .rules
+                .walk_zone_for(school.students, walk_zone);
+            let in_zone: f64 = routed.iter().filter(|r| r.0 <= zone_m).map(|r| r.3).sum();
             let len: Vec<(f64, f64)> = routed.iter().map(|r| (r.0, r.3)).collect();
             let unc: Vec<(f64, f64)> = routed.iter().map(|r| (r.1, r.3)).collect();
             let risk: Vec<(f64, f64)> = routed.iter().map(|r| (r.2, r.3)).collect();
@@ -62,6 +64,7 @@ pub fn summary_json(out: &AuditOutput) -> Value {
                 "children": children,
                 "children_routed": routed.iter().map(|r| r.3).sum::<f64>(),
                 "children_in_walk_zone": in_zone,
+                "walk_zone_m": zone_m,
                 "mean_shortest_network_m": mean(&len).map(round2),
                 "mean_uncontrolled_crossings": mean(&unc).map(round2),
                 "mean_risk_per_trip": mean(&risk).map(|x| (x * 1e4).round() / 1e4),

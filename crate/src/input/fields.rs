@@ -149,6 +149,7 @@ pub const SCHOOLS: FieldTable = &[
     ("id", &["id"]),
     ("name", &["name"]),
     ("students", &["students"]),
+    ("grades", &["grades"]),
     ("entrances", &["entrances"]),
 ];
 /// `lon`/`lat` name CSV columns; empty means "detect" (see `homes_csv`).

@@ -6,6 +6,7 @@ pub mod geojson_read;
 pub mod homes_csv;
 pub mod mapping;
 pub mod model;
+pub mod observed;
 pub mod presets;
 mod read;
 pub mod speed;
@@ -48,6 +49,8 @@ pub struct RawLayers {
     pub homes: String,
     pub homes_format: HomesFormat,
     pub catchments: Option<String>,
+    /// Observed crashes (Points; see [`observed`]), optional.
+    pub crashes: Option<String>,
     pub preset: Preset,
     /// A user's field-mapping file (JSON), overriding the preset.
     pub mapping: Option<String>,
@@ -89,6 +92,11 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
     };
     if let Some(text) = raw.crossings.as_deref().filter(|t| !t.trim().is_empty()) {
         layers.crossings = read::crossings(text, pick("crossings", &crossing_f), &mut w)?;
+        let osm = matches!(pick("crossings", &crossing_f), Reader::Osm);
+        layers.rail_crossings = observed::rail_crossings(text, osm, &mut w)?;
+    }
+    if let Some(text) = raw.crashes.as_deref().filter(|t| !t.trim().is_empty()) {
+        layers.crashes = observed::crashes(text, &mut w)?;
     }
     layers.schools = read::schools(&raw.schools, pick("schools", &school_f), &school_f, &mut w)?;
     let home_f = fields("homes", fields::HOMES);

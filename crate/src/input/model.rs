@@ -138,9 +138,12 @@ pub enum Device {
     None,
     /// Marked crosswalk without further control.
     Marked,
+    /// Yield (give-way) sign on the crossed leg: drivers must slow and yield but need not
+    /// stop. Not a stop sign: 67 Pa. Code § 447.4(a)(2) exempts only signals and stop signs.
+    Yield,
     /// Marked crosswalk with a pedestrian-activated flashing beacon.
     Beacon,
-    /// Stop or yield sign on the crossed leg (minor-leg control).
+    /// Stop sign on the crossed leg (minor-leg control).
     Stop,
     /// All-way stop.
     AllWayStop,
@@ -252,4 +255,10 @@ pub struct Layers {
     pub schools: Vec<School>,
     pub homes: Vec<Home>,
     pub catchments: Vec<Catchment>,
+    /// Rail grade crossings walkers use (from the crossings layer).
+    #[serde(default)]
+    pub rail_crossings: Vec<super::observed::RailCrossing>,
+    /// Observed crashes (the optional crashes layer).
+    #[serde(default)]
+    pub crashes: Vec<super::observed::Crash>,
 }

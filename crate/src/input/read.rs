@@ -106,6 +106,9 @@ pub fn crossings(text: &str, reader: Reader, w: &mut Warnings) -> Result<Vec<Cro
                 Reader::Plain(_) => return Err(wrong_geometry(ctx.at(), found, "Point")),
             },
         };
+        if matches!(reader, Reader::Plain(_)) && props.contains_key("rail_tracks") {
+            return Ok(()); // a rail crossing: read by `observed::rail_crossings`
+        }
         let (control, scope) = match reader {
             Reader::Plain(fields) => plain::crossing(&ctx, &props, fields, w),
             Reader::Osm => match osm::crossing(&props) {

@@ -8,7 +8,7 @@ pub const SIDEWALK_VALUES: &str = "both, left, right, none, unknown, separate";
 pub const BOOL_VALUES: &str = "true, false, yes, no, 1, 0";
 pub const STUDENTS_VALUES: &str = "elementary, secondary";
 pub const CONTROL_VALUES: &str =
-    "signal, all_way_stop, stop, marked, guard, refuge, raised, beacon, none (join several with ';')";
+    "signal, all_way_stop, stop, yield, marked, guard, refuge, raised, beacon, none (join several with ';')";
 
 /// Reads a road class name (case-insensitive).
 pub fn parse_class(t: &str) -> Option<RoadClass> {
@@ -68,13 +68,44 @@ pub fn parse_bool(t: &str) -> Option<bool> {
     }
 }
 
-/// Reads `elementary`/`secondary` (also `primary`, `middle`, `high`).
+/// Reads `elementary`/`secondary` (also `primary`, `high`; `middle` is elementary: a middle
+/// school usually teaches grade 6, an elementary grade under 67 Pa. Code § 447.2, and the
+/// youngest pupils decide).
 pub fn parse_students(t: &str) -> Option<Students> {
     match t.trim().to_ascii_lowercase().as_str() {
-        "elementary" | "primary" => Some(Students::Elementary),
-        "secondary" | "middle" | "high" => Some(Students::Secondary),
+        "elementary" | "primary" | "middle" => Some(Students::Elementary),
+        "secondary" | "high" => Some(Students::Secondary),
         _ => None,
     }
+}
+
+/// The kind of pupil a school's grades make it: 67 Pa. Code § 447.2 counts kindergarten to
+/// grade six as elementary; the lowest grade taught decides, so a 6-8 middle school is
+/// elementary and a 7-12 school secondary. Reads `K-5`, `PK-8`, `6-8`, `9;10;11;12`, `7`.
+///
+/// ```
+/// use catchwalk::input::{values::students_of_grades, Students};
+/// assert_eq!(students_of_grades("K-5"), Some(Students::Elementary));
+/// assert_eq!(students_of_grades("6-8"), Some(Students::Elementary));
+/// assert_eq!(students_of_grades("7-12"), Some(Students::Secondary));
+/// assert_eq!(students_of_grades("none"), None);
+/// ```
+pub fn students_of_grades(t: &str) -> Option<Students> {
+    let lowest = t
+        .split(|c: char| c == '-' || c == ';' || c == ',' || c == '–' || c.is_whitespace())
+        .filter_map(|g| {
+            let g = g.trim().to_ascii_uppercase();
+            match g.as_str() {
+                "K" | "PK" | "TK" | "KG" | "P" => Some(0),
+                _ => g.parse::<u32>().ok().filter(|n| *n <= 13),
+            }
+        })
+        .min()?;
+    Some(if lowest <= 6 {
+        Students::Elementary
+    } else {
+        Students::Secondary
+    })
 }
 
 /// Reads a whole number (also `2.0`); `None` for fractions, text or out-of-range values.
@@ -119,6 +150,7 @@ pub fn parse_control(t: &str) -> (Control, Vec<String>) {
             "signal" => Device::Signal,
             "all_way_stop" => Device::AllWayStop,
             "stop" => Device::Stop,
+            "yield" | "give_way" => Device::Yield,
             "marked" => Device::Marked,
             "beacon" => Device::Beacon,
             "none" => Device::None,
@@ -285,6 +317,9 @@ mod tests {
             assert_eq!(scope_of(c.device), scope, "{t}");
         }
         assert_eq!(parse_control("guard").0.guard, Some(vec![]));
+        // A yield sign is its own device, weaker than a stop sign.
+        assert_eq!(parse_control("yield").0.device, Device::Yield);
+        assert_eq!(parse_control("yield;stop").0.device, Device::Stop);
         assert_eq!(parse_control("marked;zebra").1, vec!["zebra".to_string()]);
     }
 

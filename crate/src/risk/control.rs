@@ -8,6 +8,7 @@
 //! |---|---|---|
 //! | marked crosswalk alone | 1.00 | Zegeer et al. 2005 (FHWA-HRT-04-100): no significant difference from unmarked at uncontrolled two-lane sites (from memory) |
 //! | rectangular rapid flashing beacon | 0.526 | NCHRP Report 841 (Zegeer et al. 2017), via FHWA Proven Safety Countermeasures (up to 47 % fewer pedestrian crashes; from memory) |
+//! | yield (give-way) sign on the crossed leg | 0.75 | our assumption (no pedestrian CMF found: halfway between no control and a stop sign, since drivers need not stop) |
 //! | minor-leg stop on the crossed leg | 0.50 | our assumption |
 //! | all-way stop | 0.48 | our assumption |
 //! | signal with pedestrian phase | 0.453 | NCHRP 841 CMF for a pedestrian hybrid beacon (from memory), the nearest published figure for a signal at a formerly uncontrolled crossing |
@@ -25,6 +26,7 @@ pub struct ControlFactors {
     pub none: f64,
     pub marked: f64,
     pub beacon: f64,
+    pub yield_sign: f64,
     pub stop: f64,
     pub all_way_stop: f64,
     pub signal: f64,
@@ -39,6 +41,7 @@ impl Default for ControlFactors {
             none: 1.0,
             marked: 1.0,
             beacon: 0.526,
+            yield_sign: 0.75,
             stop: 0.50,
             all_way_stop: 0.48,
             signal: 0.453,
@@ -54,6 +57,7 @@ impl ControlFactors {
         let f = match d {
             Device::None => self.none,
             Device::Marked => self.marked,
+            Device::Yield => self.yield_sign,
             Device::Beacon => self.beacon,
             Device::Stop => self.stop,
             Device::AllWayStop => self.all_way_stop,
@@ -134,6 +138,7 @@ mod tests {
         let order = [
             Device::None,
             Device::Marked,
+            Device::Yield,
             Device::Beacon,
             Device::Stop,
             Device::AllWayStop,

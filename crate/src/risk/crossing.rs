@@ -115,6 +115,18 @@ mod tests {
         }
     }
 
+    /// Our assumption, stated in docs/methods.md: the HCM probability of meeting traffic is
+    /// used as exposure, so it saturates at 1 / P_d,ref = 1 / 0.136598 = 7.32 times the
+    /// reference crossing however busy or wide the road (hand computation).
+    #[test]
+    fn exposure_saturates_at_7_3_times_the_reference() {
+        let cfg = RiskConfig::default();
+        let pd_ref = reference_delayed_probability(&cfg);
+        assert!((pd_ref - 0.136_598).abs() < 1e-6);
+        let p = crossing_points(&input(50.0, 60.0, 5_000.0, &Control::UNCONTROLLED), &cfg);
+        assert!((p - 7.320_765).abs() < 1e-5, "{p}");
+    }
+
     #[test]
     fn faster_wider_busier_riskier_and_controls_help() {
         let cfg = RiskConfig::default();

@@ -64,6 +64,10 @@ pub struct VolumeConfig {
     pub design_hour_factor: f64,
     /// Peak hour factor (hourly volume / 4 x peak 15-minute volume).
     pub peak_hour_factor: f64,
+    /// Share of a class's two-way default volume carried by a one-way carriageway (0.5: a
+    /// dual carriageway drawn as two one-way ways carries the class default between them;
+    /// our assumption). A street's own `aadt` or count is taken as that carriageway's.
+    pub oneway_share: f64,
 }
 
 impl Default for VolumeConfig {
@@ -72,14 +76,25 @@ impl Default for VolumeConfig {
             default_aadt: DefaultVolumes::default(),
             design_hour_factor: 0.10,
             peak_hour_factor: 0.92,
+            oneway_share: 0.5,
         }
     }
 }
 
-/// Daily volume of a street: its own, else the class default.
+/// Daily volume of a street: its own, else the class default (a one-way carriageway: its
+/// `oneway_share` of it).
+///
+/// ```
+/// use catchwalk::input::{RoadClass, Street};
+/// use catchwalk::risk::volume::{daily_volume, VolumeConfig};
+/// let mut s = Street::new(0, RoadClass::Arterial, 50.0, 2, vec![[0.0, 0.0], [0.001, 0.0]]);
+/// s.oneway = true;
+/// assert_eq!(daily_volume(&s, &VolumeConfig::default()), 6_000.0);
+/// ```
 pub fn daily_volume(street: &Street, cfg: &VolumeConfig) -> f64 {
     match street.aadt {
         Some(v) if v.is_finite() && v >= 0.0 => v,
+        _ if street.oneway => cfg.default_aadt.of(street.class) * cfg.oneway_share.clamp(0.0, 1.0),
         _ => cfg.default_aadt.of(street.class),
     }
 }
@@ -127,6 +142,12 @@ mod tests {
         assert!((vehicles_15min(&s, &cfg) - 3500.0 * 0.1 / 3.68).abs() < 1e-9);
         s.aadt = Some(920.0);
         assert!((vehicles_15min(&s, &cfg) - 25.0).abs() < 1e-9);
+        // A one-way carriageway keeps its own count, or half the class default.
+        s.oneway = true;
+        assert!((vehicles_15min(&s, &cfg) - 25.0).abs() < 1e-9);
+        s.aadt = None;
+        assert!((vehicles_15min(&s, &cfg) - 1750.0 * 0.1 / 3.68).abs() < 1e-9);
+        s.oneway = false;
         s.vehicles_15min = Some(77.0);
         assert_eq!(vehicles_15min(&s, &cfg), 77.0);
         s.class = RoadClass::Path;

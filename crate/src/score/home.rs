@@ -1,6 +1,6 @@
 //! Per-home scores: risk, benefit, walk zone, safe route and hazard, with the reason.
 
-use super::rules::{edge_facts, EdgeFacts, RuleSet, Target, Verdict};
+use super::rules::{EdgeFacts, RuleMatch, RuleSet, Target, Verdict};
 use crate::benefit;
 use crate::config::Config;
 use crate::input::{Street, Students};
@@ -70,6 +70,82 @@ pub struct HomeScore {
     pub longest_wait_s: f64,
     pub longest_wait_los: Option<Los>,
     pub findings: Vec<Finding>,
+    /// What a site visit must settle on the recommended route: rules that would fire but
+    /// for a fact the layers do not hold (a candidate, never counted hazardous), one line
+    /// each, `rule (street): check ...`.
+    pub site_checks: Vec<String>,
+    /// The walk-zone distance applied to this home (the rule set's for its kind of pupil,
+    /// else the `benefit` setting).
+    pub walk_zone_m: f64,
+}
+
+/// The site checks a route needs: every rule that matches an edge of the route except for
+/// facts the layers do not hold (unknown sidewalk, a width estimated from lanes, a condition
+/// the rule says is never in the data). Stretch rules keep their minimum length. One line per
+/// rule and street, in route order.
+pub fn route_site_checks(
+    rules: &RuleSet,
+    route: &Route,
+    graph: &PedGraph,
+    streets: &[Street],
+    students: Students,
+    config: &Config,
+) -> Vec<String> {
+    // (rule index, street label) -> (metres, what to check)
+    let mut found: Vec<(usize, String, f64, Vec<String>)> = Vec::new();
+    for step in &route.steps {
+        let Some(edge) = graph.edges.get(step.edge as usize) else {
+            continue;
+        };
+        let Some(facts) = rules.edge_facts(graph, edge, streets, &config.risk) else {
+            continue;
+        };
+        for (k, rule) in rules.rules.iter().enumerate() {
+            let (m, metres) = match &facts {
+                EdgeFacts::Crossing(f) => (rule.crossing_match(f, students), 0.0),
+                EdgeFacts::Stretch(f) => (
+                    rule.stretch_match(f, students),
+                    step.share() * edge.length_m,
+                ),
+            };
+            let RuleMatch::Check(what) = m else {
+                continue;
+            };
+            let street = street_of(graph, edge, streets)
+                .map(street_label)
+                .unwrap_or_default();
+            match found.iter_mut().find(|x| x.0 == k && x.1 == street) {
+                Some(x) => {
+                    x.2 += metres;
+                    for w in what {
+                        if !x.3.contains(&w) {
+                            x.3.push(w);
+                        }
+                    }
+                }
+                None => found.push((k, street, metres, what)),
+            }
+        }
+    }
+    found
+        .into_iter()
+        .filter_map(|(k, street, metres, what)| {
+            let rule = rules.rules.get(k)?;
+            if rule.on == Target::Stretch && metres <= rule.min_length_m.unwrap_or(0.0) {
+                return None;
+            }
+            let len = if rule.on == Target::Stretch {
+                format!(", {metres:.0} m walked along it")
+            } else {
+                String::new()
+            };
+            Some(format!(
+                "{} ({street}{len}): check {}",
+                rule.id,
+                what.join("; and ")
+            ))
+        })
+        .collect()
 }
 
 /// A readable name for a street: its name, else `street <id>`.
@@ -97,7 +173,7 @@ pub fn route_findings(
         let Some(edge) = graph.edges.get(step.edge as usize) else {
             continue;
         };
-        let Some(facts) = edge_facts(graph, edge, streets, risk_cfg) else {
+        let Some(facts) = rules.edge_facts(graph, edge, streets, risk_cfg) else {
             continue;
         };
         let risk = edge_risk_points(graph, edge, streets, risk_cfg);
@@ -174,7 +250,7 @@ pub fn longest_wait_s(route: &Route, graph: &PedGraph, streets: &[Street], confi
         .steps
         .iter()
         .filter_map(|s| graph.edges.get(s.edge as usize))
-        .filter_map(|e| match edge_facts(graph, e, streets, r) {
+        .filter_map(|e| match super::rules::edge_facts(graph, e, streets, r) {
             Some(EdgeFacts::Crossing(f))
                 if !f
                     .tags
@@ -215,7 +291,8 @@ pub fn score_home(
     };
     let b = &config.benefit;
     let active = benefit::active_minutes_per_day(rec.audit.walked_m, b);
-    let in_zone = benefit::in_walk_zone(sh.audit.network_m, b);
+    let walk_zone_m = config.score.rules.walk_zone_for(students, b.walk_zone_m);
+    let in_zone = sh.audit.network_m <= walk_zone_m;
     let findings = route_findings(
         &config.score.rules,
         &rec.route,
@@ -226,19 +303,18 @@ pub fn score_home(
     );
     let route_ok = findings.is_empty();
     let safe_network_m = safe.map(|r| r.audit.network_m);
-    let safe_route = safe_network_m.is_some_and(|m| benefit::in_walk_zone(m, b));
+    let safe_route = safe_network_m.is_some_and(|m| m <= walk_zone_m);
     let first = findings.first().map(Finding::line);
     let unsafe_reason = if !in_zone {
         format!(
             "outside the walk zone: {:.0} m > {:.0} m",
-            sh.audit.network_m, b.walk_zone_m
+            sh.audit.network_m, walk_zone_m
         )
     } else if safe_route {
         String::new()
     } else if let Some(m) = safe_network_m {
         let mut why = format!(
-            "the only routes that avoid every flagged crossing and stretch are {m:.0} m, beyond the {:.0} m walk zone",
-            b.walk_zone_m
+            "the only routes that avoid every flagged crossing and stretch are {m:.0} m, beyond the {walk_zone_m:.0} m walk zone"
         );
         if let Some(f) = &first {
             why.push_str("; on the recommended route: ");
@@ -272,6 +348,15 @@ pub fn score_home(
         longest_wait_s: wait,
         longest_wait_los: (wait > 0.0).then(|| Los::of_delay_s(wait)),
         findings,
+        site_checks: route_site_checks(
+            &config.score.rules,
+            &rec.route,
+            graph,
+            streets,
+            students,
+            config,
+        ),
+        walk_zone_m,
     }
 }
 

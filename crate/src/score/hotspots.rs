@@ -37,6 +37,11 @@ pub struct Hotspot {
     /// HCM average wait at the crossing (s) and its LOS (crossings only).
     pub wait_s: Option<f64>,
     pub los: Option<Los>,
+    /// Observed crashes joined to the edge (all, with a pedestrian, killed or seriously
+    /// injured): beside the modelled risk, never in it. Counts, not points: safe to share.
+    pub crashes: u32,
+    pub crashes_pedestrian: u32,
+    pub crashes_ksi: u32,
 }
 
 /// Names a control: device plus features, joined by `+`.
@@ -141,6 +146,9 @@ pub fn hotspots(
                 product,
                 wait_s,
                 los,
+                crashes: 0,
+                crashes_pedestrian: 0,
+                crashes_ksi: 0,
             })
         })
         .collect();

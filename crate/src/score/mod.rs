@@ -17,6 +17,9 @@ pub struct ScoreConfig {
     /// rule flags (common practice: a majority).
     pub safe_share: f64,
     pub plan: plan::PlanConfig,
+    /// Rail crossings and crashes join edges within this distance (m; the crossing-point
+    /// attach distance; see `score::observed`).
+    pub observed_join_m: f64,
 }
 
 impl Default for ScoreConfig {
@@ -26,6 +29,7 @@ impl Default for ScoreConfig {
             walkable_share: 0.5,
             safe_share: 0.5,
             plan: plan::PlanConfig::default(),
+            observed_join_m: 15.0,
         }
     }
 }
@@ -33,6 +37,7 @@ impl Default for ScoreConfig {
 pub mod catchment;
 pub mod home;
 pub mod hotspots;
+pub mod observed;
 pub mod plan;
 
 use crate::config::Config;
@@ -58,7 +63,27 @@ pub fn score_audit(
     homes: &[HomeResult],
     config: &Config,
 ) -> Scores {
-    let home_scores = home::score_homes(homes, &layers.schools, graph, &layers.streets, config);
+    let mut home_scores = home::score_homes(homes, &layers.schools, graph, &layers.streets, config);
+    let located = observed::locate(layers, graph, config.score.observed_join_m);
+    if !layers.rail_crossings.is_empty() || !layers.crashes.is_empty() {
+        for (h, sc) in homes.iter().zip(home_scores.iter_mut()) {
+            let Some(rec) = &h.recommended else { continue };
+            let students = h
+                .assignment
+                .school
+                .and_then(|s| layers.schools.get(s))
+                .map(|s| s.students)
+                .unwrap_or_default();
+            sc.site_checks.extend(observed::observed_site_checks(
+                &config.score.rules,
+                &rec.route,
+                layers,
+                &located,
+                students,
+                config,
+            ));
+        }
+    }
     let catchments = (0..layers.schools.len())
         .map(|s| {
             let members: Vec<(&home::HomeScore, f64)> = homes
@@ -71,8 +96,13 @@ pub fn score_audit(
             catchment::score_catchment(s, &members, &config.score)
         })
         .collect();
+    let mut hotspots = hotspots::hotspots(homes, &layers.homes, graph, &layers.streets, config);
+    for h in hotspots.iter_mut() {
+        (h.crashes, h.crashes_pedestrian, h.crashes_ksi) =
+            observed::crash_counts_of(h.edge, layers, &located);
+    }
     Scores {
-        hotspots: hotspots::hotspots(homes, &layers.homes, graph, &layers.streets, config),
+        hotspots,
         homes: home_scores,
         catchments,
     }

@@ -168,8 +168,24 @@ pub fn street(ctx: &Ctx, props: &Props, w: &mut Warnings) -> Option<Street> {
             (default_speed_kmh(class), SpeedSource::ClassDefault)
         }
     };
+    let oneway = is(props, "oneway", &["yes", "true", "1", "-1", "reversible"])
+        || (tag(props, "oneway").is_none() && is(props, "junction", &["roundabout", "circular"]));
+    // Without `lanes`: the lanes by direction add up; else the class default, halved on a
+    // one-way carriageway (one of a divided road's two ways carries half its lanes).
+    let by_direction: u32 = ["lanes:forward", "lanes:backward", "lanes:both_ways"]
+        .iter()
+        .filter_map(|k| tag(props, k).and_then(parse_int))
+        .filter(|n| (1..=16).contains(n))
+        .map(|n| n as u32)
+        .sum();
+    let class_lanes = if oneway {
+        (default_lanes(class) / 2).max(1)
+    } else {
+        default_lanes(class)
+    };
     let lanes = match tag(props, "lanes") {
-        None => default_lanes(class),
+        None if by_direction > 0 => by_direction,
+        None => class_lanes,
         Some(v) => match v.split(';').filter_map(parse_int).max() {
             Some(n) if (1..=32).contains(&n) => n as u32,
             _ => {
@@ -181,13 +197,11 @@ pub fn street(ctx: &Ctx, props: &Props, w: &mut Warnings) -> Option<Street> {
                         class.as_str()
                     ),
                 );
-                default_lanes(class)
+                class_lanes
             }
         },
     };
     let (left, right) = sidewalks(ctx, props, w);
-    let oneway = is(props, "oneway", &["yes", "true", "1", "-1", "reversible"])
-        || (tag(props, "oneway").is_none() && is(props, "junction", &["roundabout", "circular"]));
     let layer =
         match tag(props, "layer").map(|v| (v, parse_int(v).and_then(|n| i32::try_from(n).ok()))) {
             Some((_, Some(n))) => n,
@@ -259,7 +273,7 @@ pub fn crossing(props: &Props) -> Option<(Control, ControlScope)> {
                 c.device = Device::Stop;
             }
         }
-        Some("give_way") => c.device = Device::Stop,
+        Some("give_way") => c.device = Device::Yield,
         Some("crossing") => {}
         _ if tag(props, "crossing").is_some() && tag(props, "railway").is_none() => {}
         _ => return None,
@@ -310,6 +324,10 @@ pub fn crossing(props: &Props) -> Option<(Control, ControlScope)> {
 
 /// A school's students from `isced:level` (0-1 elementary, 2-3 secondary), default elementary.
 pub fn students(props: &Props) -> Students {
+    // `grades` (US mapping practice, e.g. `K-5`) decides when readable.
+    if let Some(s) = tag(props, "grades").and_then(crate::input::values::students_of_grades) {
+        return s;
+    }
     match tag(props, "isced:level") {
         Some(v) if v.contains('2') || v.contains('3') => {
             if v.contains('1') || v.contains('0') {
@@ -510,6 +528,30 @@ mod tests {
         assert_eq!(w.finish().len(), 2);
     }
 
+    /// A divided road drawn as two one-way ways (OpenStreetMap wiki, "Key:oneway" and
+    /// "Key:lanes": `lanes` on a one-way way counts that carriageway's lanes; common mapping
+    /// practice): each way is one roadway; without `lanes` it gets half the class's lanes.
+    #[test]
+    fn one_way_carriageways_and_lanes_by_direction() {
+        let lanes = |v: Value| way(v).0.map(|s| (s.lanes, s.oneway));
+        assert_eq!(
+            lanes(json!({"highway": "primary", "oneway": "yes"})),
+            Some((2, true))
+        );
+        assert_eq!(
+            lanes(json!({"highway": "primary", "oneway": "yes", "lanes": "3"})),
+            Some((3, true))
+        );
+        assert_eq!(
+            lanes(json!({"highway": "secondary", "lanes:forward": "2", "lanes:backward": "1"})),
+            Some((3, false))
+        );
+        assert_eq!(
+            lanes(json!({"highway": "residential", "oneway": "yes"})),
+            Some((1, true))
+        );
+    }
+
     #[test]
     fn sidewalk_tags() {
         use SideWalk::*;
@@ -626,8 +668,10 @@ mod tests {
             Some((D::AllWayStop, false, false, false, AllLegs))
         );
         assert_eq!(
+            // A give-way sign is a yield, not a stop (67 Pa. Code § 447.4(a)(2) exempts only
+            // signals and stop signs).
             c(json!({"highway": "give_way"})),
-            Some((D::Stop, false, false, false, NearestLeg))
+            Some((D::Yield, false, false, false, NearestLeg))
         );
         assert_eq!(c(json!({"highway": "bus_stop"})), None);
         assert_eq!(c(json!({"amenity": "bench"})), None);

@@ -256,6 +256,21 @@ pub fn school_attrs(
         }),
         None => Students::default(),
     };
+    // A school's grades, when given and readable, decide (67 Pa. Code § 447.2's bands).
+    let students = match f.text("grades", props) {
+        Some(g) => crate::input::values::students_of_grades(&g.text).unwrap_or_else(|| {
+            unknown_value(
+                w,
+                "grades",
+                ctx,
+                &g,
+                "grades such as K-5, 6-8, 9-12",
+                "the students value",
+            );
+            students
+        }),
+        None => students,
+    };
     Ok((id, name, students))
 }
 
@@ -560,6 +575,18 @@ mod tests {
             (id.as_str(), name.as_str(), st),
             ("f4", "f4", Students::Secondary)
         );
+        // Grades decide over `students` (67 Pa. Code § 447.2: K-6 elementary).
+        let st = |v: serde_json::Value| {
+            school_attrs(&c, &props(v), &f, &mut Warnings::default())
+                .unwrap_or_default_school()
+                .2
+        };
+        assert_eq!(
+            st(json!({"students": "secondary", "grades": "6-8"})),
+            Students::Elementary
+        );
+        assert_eq!(st(json!({"grades": "9-12"})), Students::Secondary);
+        assert_eq!(st(json!({"students": "middle"})), Students::Elementary);
         let (_, name, st) = school_attrs(
             &c,
             &props(json!({"name": "Hill School", "students": "adults"})),
