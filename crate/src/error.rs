@@ -16,6 +16,8 @@ pub enum LayerName {
     Catchments,
     Mapping,
     Config,
+    /// What-if changes (`scenario`).
+    Interventions,
 }
 
 impl fmt::Display for LayerName {
@@ -28,6 +30,7 @@ impl fmt::Display for LayerName {
             LayerName::Catchments => "catchments",
             LayerName::Mapping => "mapping",
             LayerName::Config => "config",
+            LayerName::Interventions => "interventions",
         };
         f.write_str(s)
     }

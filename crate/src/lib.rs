@@ -19,6 +19,7 @@ pub mod network;
 pub mod pipeline;
 pub mod risk;
 pub mod route;
+pub mod scenario;
 pub mod score;
 
 #[cfg(target_arch = "wasm32")]

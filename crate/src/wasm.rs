@@ -29,6 +29,8 @@ struct PageLayers {
     preset: Preset,
     #[serde(default)]
     mapping: Option<String>,
+    #[serde(default)]
+    interventions: Option<String>,
 }
 
 impl From<PageLayers> for RawLayers {
@@ -42,6 +44,7 @@ impl From<PageLayers> for RawLayers {
             catchments: p.catchments,
             preset: p.preset,
             mapping: p.mapping,
+            interventions: p.interventions,
         }
     }
 }

@@ -104,6 +104,9 @@ struct LayerArgs {
     /// Safe-route rule set: a shipped name (default, pa-447) or a rule-set JSON file.
     #[arg(long, value_name = "NAME|FILE")]
     rules: Option<String>,
+    /// What-if interventions (GeoJSON, `kind` property), applied as an overlay on the layers.
+    #[arg(long, value_name = "FILE")]
+    interventions: Option<PathBuf>,
 }
 
 fn read(path: &Path) -> Result<String, String> {
@@ -131,6 +134,7 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
             PresetArg::Plain => Preset::Plain,
         },
         mapping: read_opt(&a.mapping)?,
+        interventions: read_opt(&a.interventions)?,
     };
     let mut config = match &a.config {
         Some(p) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,

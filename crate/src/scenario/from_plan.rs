@@ -1,0 +1,1 @@
+//! The upgrade planner's chosen upgrades as an interventions layer.
