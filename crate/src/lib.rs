@@ -10,6 +10,7 @@
 
 pub mod audit;
 pub mod benefit;
+pub mod compare;
 pub mod config;
 pub mod error;
 pub mod export;
