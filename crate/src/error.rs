@@ -18,6 +18,8 @@ pub enum LayerName {
     Config,
     /// What-if changes (`scenario`).
     Interventions,
+    /// Site-visit notes (`project::notes`).
+    Notes,
 }
 
 impl fmt::Display for LayerName {
@@ -31,6 +33,7 @@ impl fmt::Display for LayerName {
             LayerName::Mapping => "mapping",
             LayerName::Config => "config",
             LayerName::Interventions => "interventions",
+            LayerName::Notes => "notes",
         };
         f.write_str(s)
     }

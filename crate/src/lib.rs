@@ -18,6 +18,7 @@ pub mod geodesy;
 pub mod input;
 pub mod network;
 pub mod pipeline;
+pub mod project;
 pub mod risk;
 pub mod route;
 pub mod scenario;
