@@ -17,6 +17,10 @@ pub enum LayerName {
     Crashes,
     Mapping,
     Config,
+    /// What-if changes (`scenario`).
+    Interventions,
+    /// Site-visit notes (`project::notes`).
+    Notes,
 }
 
 impl fmt::Display for LayerName {
@@ -30,6 +34,8 @@ impl fmt::Display for LayerName {
             LayerName::Crashes => "crashes",
             LayerName::Mapping => "mapping",
             LayerName::Config => "config",
+            LayerName::Interventions => "interventions",
+            LayerName::Notes => "notes",
         };
         f.write_str(s)
     }

@@ -31,6 +31,8 @@ struct PageLayers {
     preset: Preset,
     #[serde(default)]
     mapping: Option<String>,
+    #[serde(default)]
+    interventions: Option<String>,
 }
 
 impl From<PageLayers> for RawLayers {
@@ -45,6 +47,7 @@ impl From<PageLayers> for RawLayers {
             crashes: p.crashes,
             preset: p.preset,
             mapping: p.mapping,
+            interventions: p.interventions,
         }
     }
 }
@@ -147,7 +150,9 @@ pub fn plan(
 ) -> Result<String, JsValue> {
     let out = run(layers_json, config_json, progress)?;
     let plan = plan_upgrades(&out, &out.scores.homes, budget);
-    serde_json::to_string(&export::plan_json(&out, &plan)).map_err(to_js)
+    let mut doc = export::plan_json(&out, &plan);
+    doc["interventions"] = crate::scenario::from_plan::plan_interventions(&out, &plan);
+    serde_json::to_string(&doc).map_err(to_js)
 }
 
 /// The page's audit document; the large collections serialise straight to text.
@@ -163,6 +168,9 @@ struct AuditDoc<'a> {
     hotspots: Value,
     layers: Value,
     warnings: &'a [crate::error::Warning],
+    /// What a re-audit did (absent for a full audit).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    reaudit: Option<Value>,
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
@@ -177,15 +185,26 @@ pub fn audit(
     progress: &js_sys::Function,
 ) -> Result<String, JsValue> {
     let out = run(layers_json, config_json, progress)?;
+    let doc = audit_doc(&out, None)?;
+    LAST_AUDIT.with(|last| *last.borrow_mut() = Some(out));
+    Ok(doc)
+}
+
+thread_local! {
+    /// The last audit, which [`reaudit`] starts from (the worker is single-threaded).
+    static LAST_AUDIT: std::cell::RefCell<Option<AuditOutput>> = const { std::cell::RefCell::new(None) };
+}
+
+fn audit_doc(out: &AuditOutput, extra: Option<Value>) -> Result<String, JsValue> {
     let doc = AuditDoc {
-        summary: export::summary_json(&out),
-        homes_csv: export::homes_csv(&out),
-        catchments_csv: export::catchments_csv(&out),
-        hotspots_csv: export::hotspots_csv(&out),
-        routes: export::routes_geojson(&out),
+        summary: export::summary_json(out),
+        homes_csv: export::homes_csv(out),
+        catchments_csv: export::catchments_csv(out),
+        hotspots_csv: export::hotspots_csv(out),
+        routes: export::routes_geojson(out),
         qa: export::qa_geojson(&out.network.qa),
-        centrelines: export::centrelines_geojson(&out),
-        hotspots: export::hotspots_geojson(&out),
+        centrelines: export::centrelines_geojson(out),
+        hotspots: export::hotspots_geojson(out),
         layers: json!({
             "crossings": out.layers.crossings,
             "schools": out.layers.schools,
@@ -197,6 +216,75 @@ pub fn audit(
             "rail_crossings": out.layers.rail_crossings,
         }),
         warnings: &out.warnings,
+        reaudit: extra,
     };
     serde_json::to_string(&doc).map_err(to_js)
+}
+
+/// Re-audits the last audit's layers with `interventions_geojson` (the scenario's whole list,
+/// an interventions layer; empty text for none), re-routing only the schools the change
+/// touches. Returns the same document as [`audit`] with `reaudit: {schools,
+/// schools_rerouted, full, core_ms}`; the result becomes the last audit.
+#[wasm_bindgen]
+pub fn reaudit(
+    interventions_geojson: &str,
+    progress: &js_sys::Function,
+) -> Result<String, JsValue> {
+    let mut p = JsProgress { callback: progress };
+    let t0 = js_sys::Date::now();
+    let list = if interventions_geojson.trim().is_empty() {
+        Vec::new()
+    } else {
+        crate::scenario::read::read_interventions(interventions_geojson).map_err(error_to_js)?
+    };
+    let result = LAST_AUDIT.with(|last| match last.borrow().as_ref() {
+        Some(prev) => crate::scenario::reaudit::reaudit(prev, list, &mut p).map_err(error_to_js),
+        None => Err(to_js("run an audit before a re-audit")),
+    })?;
+    let (out, stats) = result;
+    let core_ms = js_sys::Date::now() - t0;
+    let mut extra = serde_json::to_value(stats).map_err(to_js)?;
+    extra["core_ms"] = json!(core_ms);
+    let doc = audit_doc(&out, Some(extra))?;
+    LAST_AUDIT.with(|last| *last.borrow_mut() = Some(out));
+    Ok(doc)
+}
+
+/// Compares two audits' `homes_csv` (before, after) per catchment, as `catchwalk compare`
+/// does; returns `comparison.json` as text.
+#[wasm_bindgen(js_name = compareAudits)]
+pub fn compare_audits(before_homes_csv: &str, after_homes_csv: &str) -> Result<String, JsValue> {
+    let c =
+        crate::compare::compare_homes(before_homes_csv, after_homes_csv).map_err(error_to_js)?;
+    serde_json::to_string(&c).map_err(to_js)
+}
+
+/// Writes a project file (zip bytes) from the page's project JSON: `{layers, config,
+/// scenarios: [{name, interventions}], notes, photos: [{name, media_type, bytes (base64)}]}`
+/// (see `docs/project-format.md`).
+#[wasm_bindgen(js_name = projectWrite)]
+pub fn project_write(project_json: &str) -> Result<Vec<u8>, JsValue> {
+    let p: crate::project::Project = serde_json::from_str(project_json).map_err(to_js)?;
+    crate::project::write_project(&p).map_err(error_to_js)
+}
+
+/// Reads a project file (zip bytes) into the page's project JSON ([`project_write`]'s input).
+#[wasm_bindgen(js_name = projectRead)]
+pub fn project_read(bytes: &[u8]) -> Result<String, JsValue> {
+    let p = crate::project::read_project(bytes).map_err(error_to_js)?;
+    serde_json::to_string(&p).map_err(to_js)
+}
+
+/// The interventions layer an audit of the project runs with: the scenario `scenario` (empty
+/// for none) and, with `observations`, the notes' observed corrections; empty text for none.
+#[wasm_bindgen(js_name = projectInterventions)]
+pub fn project_interventions(
+    project_json: &str,
+    scenario: &str,
+    observations: bool,
+) -> Result<String, JsValue> {
+    let p: crate::project::Project = serde_json::from_str(project_json).map_err(to_js)?;
+    let name = (!scenario.is_empty()).then_some(scenario);
+    let text = p.interventions(name, observations).map_err(error_to_js)?;
+    Ok(text.unwrap_or_default())
 }
