@@ -2,7 +2,9 @@
 //! files and prints. No audit logic lives here.
 
 use catchwalk::config::Config;
+use catchwalk::error::LayerName;
 use catchwalk::export;
+use catchwalk::input::per_layer::{self, LayerFile, PerLayer};
 use catchwalk::input::{HomesFormat, Preset, RawLayers};
 use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
 use catchwalk::score::plan::plan_upgrades;
@@ -77,7 +79,8 @@ enum PresetArg {
 
 #[derive(Args)]
 struct LayerArgs {
-    /// Streets: GeoJSON LineStrings in WGS84 longitude/latitude.
+    /// Streets: GeoJSON LineStrings, a Shapefile (.zip, or .shp with its .dbf/.shx/.prj beside
+    /// it) or an OpenStreetMap .osm.pbf. Any layer takes these formats.
     #[arg(long, value_name = "FILE")]
     streets: PathBuf,
     /// Schools: GeoJSON Points or Polygons.
@@ -92,9 +95,18 @@ struct LayerArgs {
     /// Catchment polygons carrying the school id.
     #[arg(long, value_name = "FILE")]
     catchments: Option<PathBuf>,
-    /// How property names are read.
+    /// Property names for layers whose properties do not tell (each layer's names are
+    /// detected: `highway` tags read as OpenStreetMap, `class`/`id`/`name` as plain).
     #[arg(long, value_enum, default_value = "plain")]
     preset: PresetArg,
+    /// Property names chosen per layer, overriding detection: LAYER=osm|plain, comma-separated
+    /// or repeated (e.g. --names streets=osm,schools=plain).
+    #[arg(long, value_name = "LAYER=osm|plain")]
+    names: Vec<String>,
+    /// Coordinate system of a layer whose file does not state it (no .prj, no GeoJSON crs):
+    /// LAYER=EPSG:N for one layer, EPSG:N for every layer; a proj string also works. Repeatable.
+    #[arg(long, value_name = "[LAYER=]EPSG:N")]
+    crs: Vec<String>,
     /// A field-mapping file (JSON) for a layer with its own property names.
     #[arg(long, value_name = "FILE")]
     mapping: Option<PathBuf>,
@@ -114,23 +126,95 @@ fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
     path.as_deref().map(read).transpose()
 }
 
+/// A layer file in a binary format (zip, shp, pbf) as bytes, with a bare .shp's sidecars.
+fn layer_file(layer: LayerName, path: &Path) -> Result<Option<LayerFile>, String> {
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .unwrap_or("")
+        .to_ascii_lowercase();
+    if !matches!(ext.as_str(), "zip" | "shp" | "pbf") {
+        return Ok(None);
+    }
+    let bytes =
+        |p: &Path| std::fs::read(p).map_err(|e| format!("cannot read {}: {e}", p.display()));
+    let name = |p: &Path| {
+        p.file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default()
+    };
+    let mut files = vec![(name(path), bytes(path)?)];
+    if ext == "shp" {
+        for side in ["shx", "dbf", "prj"] {
+            let found = [side.to_string(), side.to_ascii_uppercase()]
+                .into_iter()
+                .map(|e| path.with_extension(e))
+                .find(|p| p.exists());
+            if let Some(p) = found {
+                files.push((name(&p), bytes(&p)?));
+            }
+        }
+    }
+    Ok(Some(LayerFile { layer, files }))
+}
+
+fn per_layer(a: &LayerArgs) -> Result<PerLayer, String> {
+    let mut per = PerLayer::default();
+    for (layer, path) in [
+        (LayerName::Streets, Some(&a.streets)),
+        (LayerName::Crossings, a.crossings.as_ref()),
+        (LayerName::Schools, Some(&a.schools)),
+        (LayerName::Homes, Some(&a.homes)),
+        (LayerName::Catchments, a.catchments.as_ref()),
+    ] {
+        if let Some(f) = path.map(|p| layer_file(layer, p)).transpose()?.flatten() {
+            per.files.push(f);
+        }
+    }
+    for n in &a.names {
+        per.names
+            .extend(per_layer::parse_names(n).map_err(|e| format!("--names: {e}"))?);
+    }
+    for c in &a.crs {
+        per.crs
+            .push(per_layer::parse_crs(c).map_err(|e| format!("--crs: {e}"))?);
+    }
+    Ok(per)
+}
+
+/// A layer's text, or nothing when the layer is read from a binary file.
+fn read_text(path: &Path, per: &PerLayer) -> Result<String, String> {
+    let binary = per.files.iter().any(|f| {
+        f.files.first().map(|(n, _)| n.as_str()) == path.file_name().and_then(|n| n.to_str())
+    });
+    if binary {
+        Ok(String::new())
+    } else {
+        read(path)
+    }
+}
+
 fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
+    let per = per_layer(a)?;
+    let text = |p: &Path| read_text(p, &per);
+    let text_opt = |p: &Option<PathBuf>| p.as_deref().map(text).transpose();
     let homes_format = match a.homes.extension().and_then(|e| e.to_str()) {
         Some(e) if e.eq_ignore_ascii_case("csv") => HomesFormat::Csv,
         _ => HomesFormat::GeoJson,
     };
     let raw = RawLayers {
-        streets: read(&a.streets)?,
-        crossings: read_opt(&a.crossings)?,
-        schools: read(&a.schools)?,
-        homes: read(&a.homes)?,
+        streets: text(&a.streets)?,
+        crossings: text_opt(&a.crossings)?,
+        schools: text(&a.schools)?,
+        homes: text(&a.homes)?,
         homes_format,
-        catchments: read_opt(&a.catchments)?,
+        catchments: text_opt(&a.catchments)?,
         preset: match a.preset {
             PresetArg::Osm => Preset::Osm,
             PresetArg::Plain => Preset::Plain,
         },
         mapping: read_opt(&a.mapping)?,
+        per_layer: per,
     };
     let mut config = match &a.config {
         Some(p) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,
