@@ -45,7 +45,9 @@ impl TryFrom<PageLayers> for RawLayers {
         for (layer, names) in &p.names {
             per_layer
                 .names
-                .extend(crate::input::per_layer::parse_names(&format!("{layer}={names}"))?);
+                .extend(crate::input::per_layer::parse_names(&format!(
+                    "{layer}={names}"
+                ))?);
         }
         for (layer, crs) in p.crs.iter().filter(|(_, c)| !c.trim().is_empty()) {
             let choice = if layer == "all" {
@@ -153,9 +155,7 @@ pub fn layer_to_geojson(
         files: vec![(file_name.to_string(), bytes.to_vec())],
     };
     let crs = Some(crs).filter(|c| !c.trim().is_empty());
-    crate::input::prepare::file_text(&file, crs)
-        .map(|(text, _)| text)
-        .map_err(error_to_js)
+    crate::input::prepare::layer_geojson(&file, crs).map_err(error_to_js)
 }
 
 /// The caution every result carries.

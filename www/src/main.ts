@@ -2,7 +2,13 @@
 
 import { chartImages, drawCharts } from './charts';
 import { $, download, el } from './dom';
-import { Engine } from './engine';
+import { Engine, isBinaryLayer } from './engine';
+
+/** An error's message; the core's errors come as `{message, at}` JSON. */
+function errorText(e: unknown): string {
+  const m = e instanceof Error ? e.message : String(e);
+  try { return (JSON.parse(m) as { message?: string }).message ?? m; } catch { return m; }
+}
 import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
 import { buildView, type View } from './model';
@@ -16,11 +22,11 @@ import { LAYER_KEYS, type AuditDoc, type Feature, type FeatureCollection, type L
 declare const CATCHWALK_AUTODEMO: boolean;
 
 const LAYER_INFO: Record<LayerKey, { label: string; required: boolean; accept: string }> = {
-  streets: { label: 'Streets', required: true, accept: '.geojson,.json' },
-  crossings: { label: 'Crossings', required: false, accept: '.geojson,.json' },
-  schools: { label: 'Schools', required: true, accept: '.geojson,.json' },
-  homes: { label: 'Homes', required: true, accept: '.geojson,.json,.csv' },
-  catchments: { label: 'Catchments', required: false, accept: '.geojson,.json' },
+  streets: { label: 'Streets', required: true, accept: '.geojson,.json,.zip,.pbf' },
+  crossings: { label: 'Crossings', required: false, accept: '.geojson,.json,.zip,.pbf' },
+  schools: { label: 'Schools', required: true, accept: '.geojson,.json,.zip,.pbf' },
+  homes: { label: 'Homes', required: true, accept: '.geojson,.json,.csv,.zip' },
+  catchments: { label: 'Catchments', required: false, accept: '.geojson,.json,.zip' },
   mapping: { label: 'Field mapping', required: false, accept: '.json' },
 };
 
@@ -65,7 +71,9 @@ function renderLayerList() {
     const input = el('input', { type: 'file', accept: info.accept, id: `file-${key}`, class: 'visually-hidden' });
     input.addEventListener('change', async () => {
       const file = input.files?.[0];
-      if (file) { setFile(key, { name: file.name, text: await file.text() }); schedule(); }
+      if (!file) return;
+      try { setFile(key, { name: file.name, text: await engine.layerText(key, file) }); schedule(); }
+      catch (e) { setStatus(`${file.name}: ${errorText(e)}`); }
     });
     const pick = el('label', { for: `file-${key}`, class: 'pick' }, f ? 'replace' : 'choose…');
     const clear = f && !info.required ? el('button', { type: 'button', class: 'link', title: `remove the ${info.label.toLowerCase()} layer` }, '×') : null;
@@ -432,8 +440,14 @@ document.addEventListener('drop', async (e) => {
   drop.classList.remove('over');
   const unknown: string[] = [];
   for (const file of Array.from(e.dataTransfer?.files ?? [])) {
-    const text = await file.text();
-    const key = guessLayer(file.name, text);
+    // Binary layers (zipped Shapefile, .osm.pbf) are placed by name (an extract: streets), then converted.
+    const binary = isBinaryLayer(file.name);
+    const named = binary ? guessLayer(file.name, '') ?? (/\.pbf$/i.test(file.name) ? 'streets' : null) : null;
+    if (binary && !named) { unknown.push(file.name); continue; }
+    let text: string;
+    try { text = await engine.layerText(named ?? 'streets', file); }
+    catch (e) { setStatus(`${file.name}: ${errorText(e)}`); continue; }
+    const key = named ?? guessLayer(file.name, text);
     if (key) setFile(key, { name: file.name, text });
     else unknown.push(file.name);
   }

@@ -60,6 +60,22 @@ enum Command {
         #[arg(long, value_name = "DIR")]
         out: PathBuf,
     },
+    /// Write one layer file (GeoJSON with a crs member, a Shapefile .zip or .shp, an
+    /// .osm.pbf) as the WGS84 GeoJSON the audit reads it as.
+    Convert {
+        /// Which layer the file is (streets, crossings, schools, homes, catchments), for messages.
+        #[arg(long, default_value = "streets")]
+        layer: String,
+        /// The layer file.
+        #[arg(long = "in", value_name = "FILE")]
+        input: PathBuf,
+        /// Coordinate system of a file that states none (EPSG:N or a proj string).
+        #[arg(long, value_name = "EPSG:N")]
+        crs: Option<String>,
+        /// The GeoJSON file to write.
+        #[arg(long, value_name = "FILE")]
+        out: PathBuf,
+    },
     /// Validate the layers and report network QA only (qa.geojson to --out if given).
     Check {
         #[command(flatten)]
@@ -373,6 +389,33 @@ fn run(cli: Cli) -> Result<(), String> {
                 out.display()
             );
             say!("{}", catchwalk::CAUTION);
+            Ok(())
+        }
+        Command::Convert {
+            layer,
+            input,
+            crs,
+            out,
+        } => {
+            let layer = per_layer::layer_named(&layer).ok_or_else(|| {
+                format!("--layer: '{layer}' is not a layer (streets, crossings, schools, homes, catchments)")
+            })?;
+            let file = match layer_file(layer, &input)? {
+                Some(f) => f,
+                None => LayerFile {
+                    layer,
+                    files: vec![(
+                        input.display().to_string(),
+                        std::fs::read(&input)
+                            .map_err(|e| format!("cannot read {}: {e}", input.display()))?,
+                    )],
+                },
+            };
+            let text = catchwalk::input::prepare::layer_geojson(&file, crs.as_deref())
+                .map_err(|e| e.to_string())?;
+            std::fs::write(&out, text)
+                .map_err(|e| format!("cannot write {}: {e}", out.display()))?;
+            say!("wrote {}", out.display());
             Ok(())
         }
         Command::Check { layers, out } => {

@@ -98,6 +98,34 @@ pub fn file_text(file: &LayerFile, crs_given: Option<&str>) -> Result<(String, F
     Ok((text, format))
 }
 
+/// A layer file in any format (Shapefile, `.osm.pbf`, GeoJSON with or without a `crs`
+/// member) as WGS84 GeoJSON text, as the audit reads it. `crs` is the coordinate system for a
+/// file that states none.
+///
+/// ```
+/// use catchwalk::input::{per_layer::LayerFile, prepare::layer_geojson};
+/// use catchwalk::error::LayerName;
+/// let text = r#"{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},
+///   "geometry":{"type":"Point","coordinates":[500000,4649776.22]}}]}"#;
+/// let f = LayerFile { layer: LayerName::Homes, files: vec![("h.geojson".into(), text.into())] };
+/// let out = layer_geojson(&f, Some("EPSG:32633")).unwrap();
+/// assert!(out.contains("[15.0,42.0"), "{out}");
+/// ```
+pub fn layer_geojson(file: &LayerFile, crs_given: Option<&str>) -> Result<String> {
+    let (text, format) = file_text(file, crs_given)?;
+    match format {
+        FileFormat::GeoJson => {
+            Ok(crs::reproject_geojson(&text, crs_given, file.layer)?.unwrap_or(text))
+        }
+        FileFormat::Csv => Err(Error::Parse {
+            layer: file.layer,
+            message: "a CSV file is read as homes as it is; give a GeoJSON, Shapefile or .osm.pbf"
+                .into(),
+        }),
+        _ => Ok(text),
+    }
+}
+
 /// A layer's text from its file (if given) or its text, reprojected to WGS84 when a GeoJSON
 /// layer's `crs` member or the user's choice names another coordinate system.
 pub fn prepare<'a>(
