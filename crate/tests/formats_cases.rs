@@ -176,11 +176,9 @@ fn shapefile_parts(
     points: &[(&str, [f64; 2])],
 ) -> Vec<(String, Vec<u8>)> {
     use shapefile::dbase::{FieldName, FieldValue, Record, TableWriterBuilder};
-    let dir = std::env::temp_dir().join(format!(
-        "catchwalk-shp-{}-{}",
-        std::process::id(),
-        lines.len() + 10 * points.len()
-    ));
+    static NEXT: std::sync::atomic::AtomicUsize = std::sync::atomic::AtomicUsize::new(0);
+    let n = NEXT.fetch_add(1, std::sync::atomic::Ordering::SeqCst);
+    let dir = std::env::temp_dir().join(format!("catchwalk-shp-{}-{n}", std::process::id()));
     let _ = std::fs::create_dir_all(&dir);
     let path = dir.join("layer.shp");
     let table = || {
@@ -323,5 +321,37 @@ fn a_zip_without_a_shapefile_or_dbf_is_a_clear_error() {
             }
             other => panic!("{other:?}"),
         }
+    }
+}
+
+#[test]
+fn csv_homes_in_state_plane_feet_take_the_layers_crs() {
+    let mut raw = near_feet_layers(feet_streets(true));
+    raw.homes = "id,x,y\nh1,1968900,100050\n".into();
+    raw.homes_format = catchwalk::input::HomesFormat::Csv;
+    raw.per_layer
+        .crs
+        .push(parse_crs("homes=EPSG:2272").unwrap_or((None, String::new())));
+    let (layers, _) = match read_layers(&raw) {
+        Ok(x) => x,
+        Err(e) => panic!("{e}"),
+    };
+    let [lon, lat] = layers.homes[0].at;
+    // 400 ftUS (121.9 m) east of the central meridian -77.75, 100 050 ftUS north of the origin.
+    assert!(
+        (lon + 77.74858).abs() < 2e-4 && (lat - 39.60798).abs() < 2e-4,
+        "{lon} {lat}"
+    );
+    // The same choice for every layer refuses the schools layer, which is in lon/lat already.
+    raw.per_layer.crs = vec![parse_crs("EPSG:2272").unwrap_or((None, String::new()))];
+    match read_layers(&raw) {
+        Err(Error::Input { at, message }) => {
+            assert_eq!(at.layer, LayerName::Schools);
+            assert!(
+                message.contains("looks like longitude/latitude"),
+                "{message}"
+            );
+        }
+        other => panic!("{other:?}"),
     }
 }

@@ -16,6 +16,10 @@ pub struct ToWgs84 {
     pub label: String,
     /// True when the source is already geographic WGS84 (nothing to do).
     pub is_wgs84: bool,
+    /// Refuse positions that already look like longitude/latitude (set for a coordinate
+    /// system the user chose rather than the file stated, so that `--crs` given for every
+    /// layer cannot move a WGS84 layer silently).
+    pub refuse_lonlat: bool,
 }
 
 impl std::fmt::Debug for ToWgs84 {
@@ -90,6 +94,7 @@ pub fn to_wgs84(text: &str) -> std::result::Result<ToWgs84, String> {
         to,
         label,
         is_wgs84,
+        refuse_lonlat: false,
     })
 }
 
@@ -159,6 +164,12 @@ impl ToWgs84 {
     pub fn lonlat(&self, x: f64, y: f64) -> std::result::Result<[f64; 2], String> {
         if !x.is_finite() || !y.is_finite() {
             return Err("a coordinate is not a finite number".into());
+        }
+        if self.refuse_lonlat && !self.from.is_latlong() && x.abs() <= 180.0 && y.abs() <= 90.0 {
+            return Err(format!(
+                "({x}, {y}) looks like longitude/latitude already, not {}; leave this layer out of the coordinate-system choice (give --crs LAYER=... for the projected layers only)",
+                self.label
+            ));
         }
         let mut p = if self.from.is_latlong() {
             (x.to_radians(), y.to_radians(), 0.0)
@@ -259,7 +270,8 @@ pub fn reproject_geojson(
         return Ok(None);
     };
     let at_crs = || Location::layer(layer).with_property("crs");
-    let t = to_wgs84(name).map_err(|m| Error::input(at_crs(), m))?;
+    let mut t = to_wgs84(name).map_err(|m| Error::input(at_crs(), m))?;
+    t.refuse_lonlat = stated.is_none();
     if let Some(o) = doc.as_object_mut() {
         o.remove("crs");
     }
@@ -371,6 +383,21 @@ mod tests {
         }
         assert!(to_wgs84("PROJCS[broken").is_err());
         assert!(to_wgs84("+proj=nonesuch").is_err());
+    }
+
+    #[test]
+    fn a_chosen_crs_refuses_a_layer_already_in_lonlat() {
+        let text = r#"{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},"geometry":{"type":"Point","coordinates":[-77.7,40.1]}}]}"#;
+        match reproject_geojson(text, Some("EPSG:2272"), LayerName::Schools) {
+            Err(Error::Input { at, message }) => {
+                assert_eq!((at.layer, at.feature), (LayerName::Schools, Some(0)));
+                assert!(
+                    message.contains("looks like longitude/latitude"),
+                    "{message}"
+                );
+            }
+            other => panic!("{other:?}"),
+        }
     }
 
     #[test]

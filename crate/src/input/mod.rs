@@ -144,9 +144,16 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
     layers.homes = match homes.format {
         FileFormat::Csv => {
             let t = match per.crs(L::Homes) {
-                Some(c) => Some(crs::to_wgs84(c).map_err(|m| {
-                    crate::error::Error::input(Location::layer(L::Homes).with_property("crs"), m)
-                })?),
+                Some(c) => {
+                    let mut t = crs::to_wgs84(c).map_err(|m| {
+                        crate::error::Error::input(
+                            Location::layer(L::Homes).with_property("crs"),
+                            m,
+                        )
+                    })?;
+                    t.refuse_lonlat = true;
+                    Some(t)
+                }
                 None => None,
             };
             homes_csv::read_homes_csv_in(

@@ -120,8 +120,10 @@ pub fn read_parts(parts: &ShapefileParts, crs: Option<&str>, layer: LayerName) -
     let stated = parts.prj.as_deref().filter(|p| !p.trim().is_empty());
     let transform = match stated.or(crs) {
         Some(text) => {
-            let t = crs::to_wgs84(text)
-                .map_err(|m| Error::input(Location::layer(layer).with_property(".prj"), m))?;
+            let prop = if stated.is_some() { ".prj" } else { "crs" };
+            let mut t = crs::to_wgs84(text)
+                .map_err(|m| Error::input(Location::layer(layer).with_property(prop), m))?;
+            t.refuse_lonlat = stated.is_none();
             (!t.is_wgs84).then_some(t)
         }
         None => None,
