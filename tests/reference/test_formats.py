@@ -129,7 +129,7 @@ def write_zipped_shapefile(fc, path, epsg, prj_wkt):
                        ("" if props.get(k) is None else
                         (json.dumps(props[k]) if isinstance(props[k], (list, dict, bool)) else str(props[k])))
                        for k in keys])
-    with zipfile.ZipFile(path, "w") as z:
+    with zipfile.ZipFile(path, "w", compression=zipfile.ZIP_DEFLATED) as z:
         for ext, buf in (("shp", shp), ("shx", shx), ("dbf", dbf)):
             z.writestr(f"layer.{ext}", buf.getvalue())
         z.writestr("layer.prj", prj_wkt)

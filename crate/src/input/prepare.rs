@@ -108,8 +108,10 @@ pub fn file_text(file: &LayerFile, crs_given: Option<&str>) -> Result<(String, F
 /// let text = r#"{"type":"FeatureCollection","features":[{"type":"Feature","properties":{},
 ///   "geometry":{"type":"Point","coordinates":[500000,4649776.22]}}]}"#;
 /// let f = LayerFile { layer: LayerName::Homes, files: vec![("h.geojson".into(), text.into())] };
-/// let out = layer_geojson(&f, Some("EPSG:32633")).unwrap();
-/// assert!(out.contains("[15.0,42.0"), "{out}");
+/// let out: serde_json::Value = serde_json::from_str(&layer_geojson(&f, Some("EPSG:32633")).unwrap()).unwrap();
+/// let lon = out["features"][0]["geometry"]["coordinates"][0].as_f64().unwrap();
+/// let lat = out["features"][0]["geometry"]["coordinates"][1].as_f64().unwrap();
+/// assert!((lon - 15.0).abs() < 1e-9 && (lat - 42.0).abs() < 1e-6);
 /// ```
 pub fn layer_geojson(file: &LayerFile, crs_given: Option<&str>) -> Result<String> {
     let (text, format) = file_text(file, crs_given)?;
