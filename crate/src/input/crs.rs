@@ -292,6 +292,22 @@ pub fn reproject_geojson(
 #[cfg(test)]
 mod tests {
     use super::*;
+    use proptest::prelude::*;
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(300))]
+        /// No text makes the coordinate-system readers panic: random text, and WKT or proj
+        /// string openings followed by random text.
+        #[test]
+        fn random_crs_text_never_panics(t in ".{0,120}") {
+            for s in [t.clone(), format!("PROJCS[{t}"), format!("+proj={t}"), format!("EPSG:{t}")] {
+                let _ = epsg_code(&s);
+                if let Ok(c) = to_wgs84(&s) {
+                    let _ = c.lonlat(1.0e5, 1.0e5);
+                }
+            }
+        }
+    }
 
     #[test]
     fn names_of_crs_as_files_write_them() {
