@@ -4,7 +4,7 @@
 //! say it. The CLI's `--names` and `--crs` and the page's layer options fill this.
 
 use super::Preset;
-use crate::error::{Error, LayerName, Location, Result};
+use crate::error::{Error, LayerName, Result};
 
 /// A layer given as files: one `.zip`, one `.osm.pbf`, a `.shp` with its sidecars (`.shx`,
 /// `.dbf`, `.prj`), or a GeoJSON/CSV file as bytes. Names carry the extension that says the
@@ -63,7 +63,7 @@ pub fn layer_named(name: &str) -> Option<LayerName> {
 }
 
 fn option_err(message: String) -> Error {
-    Error::input(Location::layer(LayerName::Config), message)
+    Error::Config(message)
 }
 
 /// Parses a names choice: `LAYER=osm|plain`, several separated by commas
