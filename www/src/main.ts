@@ -3,12 +3,6 @@
 import { chartImages, drawCharts } from './charts';
 import { $, download, el } from './dom';
 import { Engine, isBinaryLayer } from './engine';
-
-/** An error's message; the core's errors come as `{message, at}` JSON. */
-function errorText(e: unknown): string {
-  const m = e instanceof Error ? e.message : String(e);
-  try { return (JSON.parse(m) as { message?: string }).message ?? m; } catch { return m; }
-}
 import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
 import { buildView, type View } from './model';
@@ -18,6 +12,12 @@ import { catchmentPanel, districtPanel, homePanel } from './selection';
 import { Settings } from './settings';
 import { CatchmentTable } from './table';
 import { LAYER_KEYS, type AuditDoc, type Feature, type FeatureCollection, type LayerFile, type LayerKey, type Message } from './types';
+
+/** An error's message; the core's errors come as `{message, at}` JSON. */
+function errorText(e: unknown): string {
+  const m = e instanceof Error ? e.message : String(e);
+  try { return (JSON.parse(m) as { message?: string }).message ?? m; } catch { return m; }
+}
 
 declare const CATCHWALK_AUTODEMO: boolean;
 
