@@ -1,6 +1,7 @@
 // Binary layers in the page's core: the wasm build's layerToGeojson gives the same WGS84
-// GeoJSON as the native `catchwalk convert` (numbers to 1e-12 degrees: libm differs), for a zipped Shapefile in UTM 25N (the demo town's
-// streets written by pyshp, tests/wasm/fixtures) and for the OpenStreetMap extract
+// GeoJSON as the native `catchwalk convert` (numbers to 1e-12 degrees: libm differs), for a
+// zipped Shapefile in UTM 25N (the demo town's streets written by pyshp, tests/wasm/fixtures)
+// and for the OpenStreetMap extract
 // test.osm.pbf (when `make test-reference` has fetched it into .cache/osm).
 
 import { test } from 'node:test';
