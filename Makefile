@@ -22,7 +22,7 @@ setup-rust:
 	@command -v $(CARGO) >/dev/null || { echo "cargo not found: install Rust with rustup"; exit 1; }
 
 setup-py:
-	@$(PYTHON) -c "import pytest, networkx, geographiclib" 2>/dev/null || \
+	@$(PYTHON) -c "import pytest, networkx, geographiclib, pyproj, shapefile" 2>/dev/null || \
 		$(PYTHON) -m pip install -q --disable-pip-version-check -r tests/reference/requirements.txt
 
 # osmium-tool turns an OpenStreetMap extract into GeoJSON, as a user would do it.

@@ -94,7 +94,7 @@ impl fmt::Display for Location {
 pub enum Error {
     #[error("{at}: {message}")]
     Input { at: Location, message: String },
-    #[error("{at}: coordinates ({x}, {y}) look projected, not longitude/latitude; reproject the file to WGS84 (EPSG:4326) and load it again")]
+    #[error("{at}: coordinates ({x}, {y}) look projected, not longitude/latitude; say the layer's coordinate system (a .prj beside the Shapefile, a GeoJSON 'crs' member, or the layer's choice: --crs {layer}=EPSG:N on the command line) or reproject the file to WGS84 (EPSG:4326)", layer = at.layer)]
     Projected { at: Location, x: f64, y: f64 },
     #[error("{layer}: not valid JSON/GeoJSON: {message}")]
     Parse { layer: LayerName, message: String },

@@ -33,11 +33,37 @@ struct PageLayers {
     mapping: Option<String>,
     #[serde(default)]
     interventions: Option<String>,
+    /// Property names by layer (`{"streets": "osm", "schools": "plain"}`); others detected.
+    #[serde(default)]
+    names: std::collections::BTreeMap<String, String>,
+    /// Coordinate system by layer for layers that do not state one
+    /// (`{"streets": "EPSG:2272"}`; the key `"all"` for every layer).
+    #[serde(default)]
+    crs: std::collections::BTreeMap<String, String>,
 }
 
-impl From<PageLayers> for RawLayers {
-    fn from(p: PageLayers) -> Self {
-        RawLayers {
+impl TryFrom<PageLayers> for RawLayers {
+    type Error = Error;
+    fn try_from(p: PageLayers) -> Result<Self, Error> {
+        let mut per_layer = crate::input::per_layer::PerLayer::default();
+        for (layer, names) in &p.names {
+            per_layer
+                .names
+                .extend(crate::input::per_layer::parse_names(&format!(
+                    "{layer}={names}"
+                ))?);
+        }
+        for (layer, crs) in p.crs.iter().filter(|(_, c)| !c.trim().is_empty()) {
+            let choice = if layer == "all" {
+                crs.clone()
+            } else {
+                format!("{layer}={crs}")
+            };
+            per_layer
+                .crs
+                .push(crate::input::per_layer::parse_crs(&choice)?);
+        }
+        Ok(RawLayers {
             streets: p.streets,
             crossings: p.crossings,
             schools: p.schools,
@@ -47,8 +73,9 @@ impl From<PageLayers> for RawLayers {
             crashes: p.crashes,
             preset: p.preset,
             mapping: p.mapping,
+            per_layer,
             interventions: p.interventions,
-        }
+        })
     }
 }
 
@@ -116,6 +143,27 @@ pub fn rule_set_names() -> Vec<String> {
         .collect()
 }
 
+/// A layer file in a binary format (a zipped Shapefile `.zip`, an OpenStreetMap `.osm.pbf`;
+/// by `file_name`'s extension, else its first bytes) as WGS84 GeoJSON text, which the page
+/// then loads like any GeoJSON layer. `crs`: the coordinate system for a Shapefile without a
+/// `.prj` (empty: none). `layer` names the layer for messages (`streets`, ...).
+#[wasm_bindgen(js_name = layerToGeojson)]
+pub fn layer_to_geojson(
+    layer: &str,
+    file_name: &str,
+    bytes: &[u8],
+    crs: &str,
+) -> Result<String, JsValue> {
+    let layer = crate::input::per_layer::layer_named(layer)
+        .ok_or_else(|| to_js(format!("'{layer}' is not a layer")))?;
+    let file = crate::input::per_layer::LayerFile {
+        layer,
+        files: vec![(file_name.to_string(), bytes.to_vec())],
+    };
+    let crs = Some(crs).filter(|c| !c.trim().is_empty());
+    crate::input::prepare::layer_geojson(&file, crs).map_err(error_to_js)
+}
+
 /// The caution every result carries.
 #[wasm_bindgen]
 pub fn caution() -> String {
@@ -129,7 +177,7 @@ fn run(
     progress: &js_sys::Function,
 ) -> Result<AuditOutput, JsValue> {
     let page: PageLayers = serde_json::from_str(layers_json).map_err(to_js)?;
-    let raw: RawLayers = page.into();
+    let raw = RawLayers::try_from(page).map_err(error_to_js)?;
     let config = if config_json.trim().is_empty() {
         Config::default()
     } else {
@@ -174,7 +222,8 @@ struct AuditDoc<'a> {
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
-/// catchments?, crashes?, preset?, mapping?}` with each layer as text; `config_json`: a config
+/// catchments?, crashes?, preset?, mapping?, names?, crs?}` with each layer as text (binary files
+/// first through [`layer_to_geojson`]); `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
 /// catchments and hotspots CSV tables, routes, QA, centrelines, hotspots, the validated layers and the warnings. An error comes
 /// back as `{message, at}` JSON.

@@ -61,7 +61,7 @@ fn four_way_with_home(crossings: Option<String>, home: [f64; 2]) -> AuditOutput 
         crashes: None,
         preset: Preset::Plain,
         mapping: None,
-        interventions: None,
+        ..RawLayers::default()
     };
     match run_audit(&raw, &Config::default(), &mut Silent) {
         Ok(out) => out,

@@ -50,6 +50,11 @@ function workerUrl(): string {
   return 'worker.js';
 }
 
+/** File names the core reads as bytes (zipped Shapefile, OpenStreetMap .osm.pbf). */
+export function isBinaryLayer(name: string): boolean {
+  return /\.(zip|pbf)$/i.test(name);
+}
+
 export class Engine {
   private worker: Worker | null = null;
   private module: WebAssembly.Module | null = null;
@@ -118,6 +123,15 @@ export class Engine {
   /** Runs the audit and the upgrade planner in the worker; the result is the plan document. */
   plan(layers: string, config: string, budget: number, onProgress: (p: Progress) => void): Promise<AuditResult> {
     return this.send((id) => ({ type: 'plan', id, layers, config, budget }), onProgress);
+  }
+
+  /** A layer file as text: GeoJSON/CSV as they are; a zipped Shapefile (.zip) or an
+   * OpenStreetMap extract (.pbf) converted to WGS84 GeoJSON by the core in the worker. */
+  async layerText(layer: string, file: File, crs = ''): Promise<string> {
+    if (!isBinaryLayer(file.name)) return file.text();
+    const bytes = await file.arrayBuffer();
+    const r = await this.send((id) => ({ type: 'convert', id, layer, name: file.name, bytes, crs }), () => {});
+    return r.docText;
   }
 
   private send(make: (id: number) => ToWorker, onProgress: (p: Progress) => void): Promise<AuditResult> {

@@ -16,14 +16,20 @@ import { Settings } from './settings';
 import { CatchmentTable } from './table';
 import { LAYER_KEYS, type AuditDoc, type Feature, type FeatureCollection, type LayerFile, type LayerKey, type Message } from './types';
 
+/** An error's message; the core's errors come as `{message, at}` JSON. */
+function errorText(e: unknown): string {
+  const m = e instanceof Error ? e.message : String(e);
+  try { return (JSON.parse(m) as { message?: string }).message ?? m; } catch { return m; }
+}
+
 declare const CATCHWALK_AUTODEMO: boolean;
 
 const LAYER_INFO: Record<LayerKey, { label: string; required: boolean; accept: string }> = {
-  streets: { label: 'Streets', required: true, accept: '.geojson,.json' },
-  crossings: { label: 'Crossings', required: false, accept: '.geojson,.json' },
-  schools: { label: 'Schools', required: true, accept: '.geojson,.json' },
-  homes: { label: 'Homes', required: true, accept: '.geojson,.json,.csv' },
-  catchments: { label: 'Catchments', required: false, accept: '.geojson,.json' },
+  streets: { label: 'Streets', required: true, accept: '.geojson,.json,.zip,.pbf' },
+  crossings: { label: 'Crossings', required: false, accept: '.geojson,.json,.zip,.pbf' },
+  schools: { label: 'Schools', required: true, accept: '.geojson,.json,.zip,.pbf' },
+  homes: { label: 'Homes', required: true, accept: '.geojson,.json,.csv,.zip' },
+  catchments: { label: 'Catchments', required: false, accept: '.geojson,.json,.zip' },
   crashes: { label: 'Crashes (observed)', required: false, accept: '.geojson,.json' },
   mapping: { label: 'Field mapping', required: false, accept: '.json' },
 };
@@ -88,7 +94,9 @@ function renderLayerList() {
     const input = el('input', { type: 'file', accept: info.accept, id: `file-${key}`, class: 'visually-hidden' });
     input.addEventListener('change', async () => {
       const file = input.files?.[0];
-      if (file) { setFile(key, { name: file.name, text: await file.text() }); schedule(); }
+      if (!file) return;
+      try { setFile(key, { name: file.name, text: await engine.layerText(key, file) }); schedule(); }
+      catch (e) { setStatus(`${file.name}: ${errorText(e)}`); }
     });
     const pick = el('label', { for: `file-${key}`, class: 'pick' }, f ? 'replace' : 'choose…');
     const clear = f && !info.required ? el('button', { type: 'button', class: 'link', title: `remove the ${info.label.toLowerCase()} layer`, 'aria-label': `remove the ${info.label.toLowerCase()} layer` }, '×') : null;
@@ -497,9 +505,18 @@ document.addEventListener('drop', async (e) => {
       continue;
     }
     if (isBinary(file.name)) {
-      // Binary layers (Zipped Shapefile, .osm.pbf) are read by the core once it reads them.
-      const p = placeFile({ name: file.name, bytes: new Uint8Array(await file.arrayBuffer()) });
-      unknown.push(`${file.name} (${p.why}; this page reads GeoJSON and CSV)`);
+      // Binary layers (zipped Shapefile, .osm.pbf): the core converts them to GeoJSON, then a
+      // Shapefile is placed by what it holds; an OpenStreetMap extract goes to streets.
+      const hint = placeFile({ name: file.name, bytes: new Uint8Array(0) });
+      let text: string;
+      try { text = await engine.layerText(hint.layer ?? 'streets', file); }
+      catch (e) { unknown.push(`${file.name} (${errorText(e)})`); continue; }
+      const byContent = placeFile({ name: file.name, text });
+      const p = /\.pbf$/i.test(file.name) || !byContent.layer ? hint : byContent;
+      if (p.layer) {
+        setFile(p.layer, { name: file.name, text }, p);
+        went.push(`${file.name} → ${LAYER_INFO[p.layer].label.toLowerCase()}`);
+      } else unknown.push(`${file.name} (${p.why})`);
       continue;
     }
     const text = await file.text();

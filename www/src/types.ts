@@ -136,7 +136,8 @@ export const LAYER_KEYS: LayerKey[] = ['streets', 'crossings', 'schools', 'homes
 export type ToWorker =
   | { type: 'init'; module: WebAssembly.Module }
   | { type: 'audit'; id: number; layers: string; config: string }
-  | { type: 'plan'; id: number; layers: string; config: string; budget: number };
+  | { type: 'plan'; id: number; layers: string; config: string; budget: number }
+  | { type: 'convert'; id: number; layer: string; name: string; bytes: ArrayBuffer; crs: string };
 
 export type FromWorker =
   | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string> }

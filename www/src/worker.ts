@@ -20,6 +20,17 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     post({ type: 'ready', defaultConfig: core.defaultConfig(), caution: core.caution(), ruleSets });
     return;
   }
+  if (msg.type === 'convert') {
+    // A binary layer file (zipped Shapefile, .osm.pbf) to GeoJSON text, by the core.
+    try {
+      const doc = (core as unknown as { layerToGeojson: (l: string, n: string, b: Uint8Array, c: string) => string })
+        .layerToGeojson(msg.layer, msg.name, new Uint8Array(msg.bytes), msg.crs);
+      post({ type: 'done', id: msg.id, doc, ms: 0 });
+    } catch (e) {
+      post({ type: 'failed', id: msg.id, error: String(e) });
+    }
+    return;
+  }
   if (msg.type === 'audit' || msg.type === 'plan') {
     const t0 = performance.now();
     const progress = (stage: string, done: number, total: number): boolean => {

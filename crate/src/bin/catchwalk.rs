@@ -2,7 +2,9 @@
 //! files and prints. No audit logic lives here.
 
 use catchwalk::config::Config;
+use catchwalk::error::LayerName;
 use catchwalk::export;
+use catchwalk::input::per_layer::{self, LayerFile, PerLayer};
 use catchwalk::input::{HomesFormat, Preset, RawLayers};
 use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
 use catchwalk::score::plan::plan_upgrades;
@@ -75,6 +77,22 @@ enum Command {
         #[command(subcommand)]
         action: ProjectAction,
     },
+    /// Write one layer file (GeoJSON with a crs member, a Shapefile .zip or .shp, an
+    /// .osm.pbf) as the WGS84 GeoJSON the audit reads it as.
+    Convert {
+        /// Which layer the file is (streets, crossings, schools, homes, catchments), for messages.
+        #[arg(long, default_value = "streets")]
+        layer: String,
+        /// The layer file.
+        #[arg(long = "in", value_name = "FILE")]
+        input: PathBuf,
+        /// Coordinate system of a file that states none (EPSG:N or a proj string).
+        #[arg(long, value_name = "EPSG:N")]
+        crs: Option<String>,
+        /// The GeoJSON file to write.
+        #[arg(long, value_name = "FILE")]
+        out: PathBuf,
+    },
     /// Validate the layers and report network QA only (qa.geojson to --out if given).
     Check {
         #[command(flatten)]
@@ -115,7 +133,8 @@ enum PresetArg {
 
 #[derive(Args)]
 struct LayerArgs {
-    /// Streets: GeoJSON LineStrings in WGS84 longitude/latitude.
+    /// Streets: GeoJSON LineStrings, a Shapefile (.zip, or .shp with its .dbf/.shx/.prj beside
+    /// it) or an OpenStreetMap .osm.pbf. Any layer takes these formats.
     #[arg(long, value_name = "FILE", required_unless_present = "project")]
     streets: Option<PathBuf>,
     /// Schools: GeoJSON Points or Polygons.
@@ -134,9 +153,18 @@ struct LayerArgs {
     /// cyclist, age); personal data, shared exports carry counts only.
     #[arg(long, value_name = "FILE")]
     crashes: Option<PathBuf>,
-    /// How property names are read.
+    /// Property names for layers whose properties do not tell (each layer's names are
+    /// detected: `highway` tags read as OpenStreetMap, `class`/`id`/`name` as plain).
     #[arg(long, value_enum, default_value = "plain")]
     preset: PresetArg,
+    /// Property names chosen per layer, overriding detection: LAYER=osm|plain, comma-separated
+    /// or repeated (e.g. --names streets=osm,schools=plain).
+    #[arg(long, value_name = "LAYER=osm|plain")]
+    names: Vec<String>,
+    /// Coordinate system of a layer whose file does not state it (no .prj, no GeoJSON crs):
+    /// LAYER=EPSG:N for one layer, EPSG:N for every layer; a proj string also works. Repeatable.
+    #[arg(long, value_name = "[LAYER=]EPSG:N")]
+    crs: Vec<String>,
     /// A field-mapping file (JSON) for a layer with its own property names.
     #[arg(long, value_name = "FILE")]
     mapping: Option<PathBuf>,
@@ -169,10 +197,71 @@ fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
     path.as_deref().map(read).transpose()
 }
 
-fn required(p: &Option<PathBuf>, flag: &str) -> Result<String, String> {
-    match p {
-        Some(p) => read(p),
-        None => Err(format!("{flag} FILE is required (or give --project FILE)")),
+/// A layer file in a binary format (zip, shp, pbf) as bytes, with a bare .shp's sidecars.
+fn layer_file(layer: LayerName, path: &Path) -> Result<Option<LayerFile>, String> {
+    let ext = path
+        .extension()
+        .and_then(|e| e.to_str())
+        .unwrap_or("")
+        .to_ascii_lowercase();
+    if !matches!(ext.as_str(), "zip" | "shp" | "pbf") {
+        return Ok(None);
+    }
+    let bytes =
+        |p: &Path| std::fs::read(p).map_err(|e| format!("cannot read {}: {e}", p.display()));
+    let name = |p: &Path| {
+        p.file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default()
+    };
+    let mut files = vec![(name(path), bytes(path)?)];
+    if ext == "shp" {
+        for side in ["shx", "dbf", "prj"] {
+            let found = [side.to_string(), side.to_ascii_uppercase()]
+                .into_iter()
+                .map(|e| path.with_extension(e))
+                .find(|p| p.exists());
+            if let Some(p) = found {
+                files.push((name(&p), bytes(&p)?));
+            }
+        }
+    }
+    Ok(Some(LayerFile { layer, files }))
+}
+
+fn per_layer(a: &LayerArgs) -> Result<PerLayer, String> {
+    let mut per = PerLayer::default();
+    for (layer, path) in [
+        (LayerName::Streets, a.streets.as_ref()),
+        (LayerName::Crossings, a.crossings.as_ref()),
+        (LayerName::Schools, a.schools.as_ref()),
+        (LayerName::Homes, a.homes.as_ref()),
+        (LayerName::Catchments, a.catchments.as_ref()),
+    ] {
+        if let Some(f) = path.map(|p| layer_file(layer, p)).transpose()?.flatten() {
+            per.files.push(f);
+        }
+    }
+    for n in &a.names {
+        per.names
+            .extend(per_layer::parse_names(n).map_err(|e| format!("--names: {e}"))?);
+    }
+    for c in &a.crs {
+        per.crs
+            .push(per_layer::parse_crs(c).map_err(|e| format!("--crs: {e}"))?);
+    }
+    Ok(per)
+}
+
+/// A layer's text, or nothing when the layer is read from a binary file.
+fn read_text(path: &Path, per: &PerLayer) -> Result<String, String> {
+    let binary = per.files.iter().any(|f| {
+        f.files.first().map(|(n, _)| n.as_str()) == path.file_name().and_then(|n| n.to_str())
+    });
+    if binary {
+        Ok(String::new())
+    } else {
+        read(path)
     }
 }
 
@@ -189,6 +278,13 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
             (p.layers.raw(iv), p.config)
         }
         None => {
+            let per = per_layer(a)?;
+            let text = |p: &Path| read_text(p, &per);
+            let text_opt = |p: &Option<PathBuf>| p.as_deref().map(text).transpose();
+            let required = |p: &Option<PathBuf>, flag: &str| match p {
+                Some(p) => text(p),
+                None => Err(format!("{flag} FILE is required (or give --project FILE)")),
+            };
             let homes_format = match a
                 .homes
                 .as_deref()
@@ -200,11 +296,11 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
             };
             let raw = RawLayers {
                 streets: required(&a.streets, "--streets")?,
-                crossings: read_opt(&a.crossings)?,
+                crossings: text_opt(&a.crossings)?,
                 schools: required(&a.schools, "--schools")?,
                 homes: required(&a.homes, "--homes")?,
                 homes_format,
-                catchments: read_opt(&a.catchments)?,
+                catchments: text_opt(&a.catchments)?,
                 crashes: read_opt(&a.crashes)?,
                 preset: match a.preset {
                     PresetArg::Osm => Preset::Osm,
@@ -212,6 +308,7 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
                 },
                 mapping: read_opt(&a.mapping)?,
                 interventions: None,
+                per_layer: per,
             };
             (raw, None)
         }
@@ -468,6 +565,33 @@ fn run(cli: Cli) -> Result<(), String> {
                 project.notes.len(),
                 project.photos.len()
             );
+            Ok(())
+        }
+        Command::Convert {
+            layer,
+            input,
+            crs,
+            out,
+        } => {
+            let layer = per_layer::layer_named(&layer).ok_or_else(|| {
+                format!("--layer: '{layer}' is not a layer (streets, crossings, schools, homes, catchments)")
+            })?;
+            let file = match layer_file(layer, &input)? {
+                Some(f) => f,
+                None => LayerFile {
+                    layer,
+                    files: vec![(
+                        input.display().to_string(),
+                        std::fs::read(&input)
+                            .map_err(|e| format!("cannot read {}: {e}", input.display()))?,
+                    )],
+                },
+            };
+            let text = catchwalk::input::prepare::layer_geojson(&file, crs.as_deref())
+                .map_err(|e| e.to_string())?;
+            std::fs::write(&out, text)
+                .map_err(|e| format!("cannot write {}: {e}", out.display()))?;
+            say!("wrote {}", out.display());
             Ok(())
         }
         Command::Check { layers, out } => {

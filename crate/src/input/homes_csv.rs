@@ -63,6 +63,17 @@ fn lonlat_columns(header: &[String], fields: &LayerFields) -> Result<(usize, usi
 /// assert_eq!(homes[0].at, [-35.0, 42.0]);
 /// ```
 pub fn read_homes_csv(text: &str, fields: &LayerFields, w: &mut Warnings) -> Result<Vec<Home>> {
+    read_homes_csv_in(text, fields, None, w)
+}
+
+/// As [`read_homes_csv`], with the x/y columns in the coordinate system `crs` (reprojected
+/// to WGS84) instead of longitude/latitude.
+pub fn read_homes_csv_in(
+    text: &str,
+    fields: &LayerFields,
+    crs: Option<&super::crs::ToWgs84>,
+    w: &mut Warnings,
+) -> Result<Vec<Home>> {
     let text = text.trim_start_matches('\u{feff}');
     let first = text.lines().next().unwrap_or("");
     let delimiter = if !first.contains(',') && first.contains(';') {
@@ -123,6 +134,13 @@ pub fn read_homes_csv(text: &str, fields: &LayerFields, w: &mut Warnings) -> Res
             })
         };
         let (x, y) = (number(ilon)?, number(ilat)?);
+        let (x, y) = match crs {
+            Some(t) => {
+                let [lon, lat] = t.lonlat(x, y).map_err(|m| Error::input(ctx.at(), m))?;
+                (lon, lat)
+            }
+            None => (x, y),
+        };
         let at = check_lonlat(x, y, &|| ctx.at())?;
         out.push(plain::home(&ctx, at, &props, fields, w));
         index += 1;

@@ -1,14 +1,19 @@
 //! Input layers: GeoJSON (RFC 7946, WGS84) and CSV homes, read through a field mapping
 //! into the validated [`model::Layers`], with feature-indexed errors and warnings.
 
+pub mod crs;
 pub mod fields;
 pub mod geojson_read;
 pub mod homes_csv;
 pub mod mapping;
 pub mod model;
 pub mod observed;
+pub mod pbf;
+pub mod per_layer;
+pub mod prepare;
 pub mod presets;
 mod read;
+pub mod shapefile;
 pub mod speed;
 pub mod validate;
 pub mod values;
@@ -56,18 +61,25 @@ pub struct RawLayers {
     pub mapping: Option<String>,
     /// What-if interventions (GeoJSON), applied as an overlay (`scenario`).
     pub interventions: Option<String>,
+    /// Layers given as files (Shapefile, `.osm.pbf`), names and coordinate systems by layer.
+    pub per_layer: per_layer::PerLayer,
 }
 
 /// Parses and validates every layer. Warnings do not stop the audit; errors do.
-/// A mapping file's `base` replaces `preset`; layers the mapping names are read through
-/// its fields with the plain rules.
+/// Each layer's property names: the layer's choice in `per_layer.names`, else plain names
+/// through the mapping file's fields when it names the layer, else OpenStreetMap tags for an
+/// `.osm.pbf`, else detected from the layer's properties ([`prepare::detect_names`]), else
+/// the mapping's `base` or `preset`.
 pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
+    use crate::error::{LayerName as L, Location};
+    use prepare::{FileFormat, Prepared};
     // An optional layer given as blank text (an empty file picker) counts as absent.
     let mapping = match raw.mapping.as_deref().filter(|t| !t.trim().is_empty()) {
         Some(text) => mapping::parse_mapping(text)?,
         None => mapping::Mapping::default(),
     };
     let preset = mapping.base.unwrap_or(raw.preset);
+    let per = &raw.per_layer;
     let fields = |layer: &str, table: FieldTable| {
         mapping
             .layer(layer)
@@ -79,38 +91,108 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
         fields("crossings", fields::CROSSINGS),
         fields("schools", fields::SCHOOLS),
     );
-    // OpenStreetMap tags read the layers the mapping does not name.
-    let pick = |layer: &str, f| {
-        if preset == Preset::Osm && mapping.layer(layer).is_none() {
-            Reader::Osm
-        } else {
-            Reader::Plain(f)
+    let gj = FileFormat::GeoJson;
+    let mut w = warnings::Warnings::default();
+    let names = |layer: L, p: &Prepared, w: &mut warnings::Warnings| -> Preset {
+        if let Some(n) = per.names(layer) {
+            return n;
+        }
+        if mapping.layer(&layer.to_string()).is_some() {
+            return Preset::Plain;
+        }
+        if p.from_osm {
+            return Preset::Osm;
+        }
+        match prepare::detect_names(&p.text, layer) {
+            Some(found) => {
+                if found != preset {
+                    let (what, other) = match found {
+                        Preset::Osm => ("OpenStreetMap tags", "plain"),
+                        Preset::Plain => ("catchwalk's plain names", "osm"),
+                    };
+                    w.push(
+                        "names",
+                        Location::layer(layer),
+                        format!("read with {what}, as its properties show; to read it otherwise choose this layer's names ({layer}={other})"),
+                    );
+                }
+                found
+            }
+            None => preset,
         }
     };
-    let mut w = warnings::Warnings::default();
+    let reader = |p: Preset, f| match p {
+        Preset::Osm => Reader::Osm,
+        Preset::Plain => Reader::Plain(f),
+    };
+    let streets = prepare::prepare(L::Streets, &raw.streets, gj, per)?;
+    let n = names(L::Streets, &streets, &mut w);
     let mut layers = Layers {
-        streets: read::streets(&raw.streets, pick("streets", &street_f), &mut w)?,
+        streets: read::streets(&streets.text, reader(n, &street_f), &mut w)?,
         ..Layers::default()
     };
-    if let Some(text) = raw.crossings.as_deref().filter(|t| !t.trim().is_empty()) {
-        layers.crossings = read::crossings(text, pick("crossings", &crossing_f), &mut w)?;
-        let osm = matches!(pick("crossings", &crossing_f), Reader::Osm);
-        layers.rail_crossings = observed::rail_crossings(text, osm, &mut w)?;
+    drop(streets);
+    if let Some(text) = optional(per, L::Crossings, &raw.crossings) {
+        let p = prepare::prepare(L::Crossings, text, gj, per)?;
+        let n = names(L::Crossings, &p, &mut w);
+        layers.crossings = read::crossings(&p.text, reader(n, &crossing_f), &mut w)?;
+        layers.rail_crossings = observed::rail_crossings(&p.text, n == Preset::Osm, &mut w)?;
     }
     if let Some(text) = raw.crashes.as_deref().filter(|t| !t.trim().is_empty()) {
         layers.crashes = observed::crashes(text, &mut w)?;
     }
-    layers.schools = read::schools(&raw.schools, pick("schools", &school_f), &school_f, &mut w)?;
+    let schools = prepare::prepare(L::Schools, &raw.schools, gj, per)?;
+    let n = names(L::Schools, &schools, &mut w);
+    layers.schools = read::schools(&schools.text, reader(n, &school_f), &school_f, &mut w)?;
     let home_f = fields("homes", fields::HOMES);
-    layers.homes = match raw.homes_format {
-        HomesFormat::GeoJson => read::homes(&raw.homes, &home_f, &mut w)?,
-        HomesFormat::Csv => homes_csv::read_homes_csv(&raw.homes, &home_f, &mut w)?,
+    let homes_format = match raw.homes_format {
+        HomesFormat::Csv => FileFormat::Csv,
+        HomesFormat::GeoJson => gj,
     };
-    if let Some(text) = raw.catchments.as_deref().filter(|t| !t.trim().is_empty()) {
-        layers.catchments = read::catchments(text, &fields("catchments", fields::CATCHMENTS))?;
+    let homes = prepare::prepare(L::Homes, &raw.homes, homes_format, per)?;
+    layers.homes = match homes.format {
+        FileFormat::Csv => {
+            let t = match per.crs(L::Homes) {
+                Some(c) => {
+                    let mut t = crs::to_wgs84(c).map_err(|m| {
+                        crate::error::Error::input(
+                            Location::layer(L::Homes).with_property("crs"),
+                            m,
+                        )
+                    })?;
+                    t.refuse_lonlat = true;
+                    Some(t)
+                }
+                None => None,
+            };
+            homes_csv::read_homes_csv_in(
+                &homes.text,
+                &home_f,
+                t.as_ref().filter(|t| !t.is_wgs84),
+                &mut w,
+            )?
+        }
+        _ => read::homes(&homes.text, &home_f, &mut w)?,
+    };
+    if let Some(text) = optional(per, L::Catchments, &raw.catchments) {
+        let p = prepare::prepare(L::Catchments, text, gj, per)?;
+        layers.catchments = read::catchments(&p.text, &fields("catchments", fields::CATCHMENTS))?;
     }
     validate::validate(&mut layers, &mut w)?;
     Ok((layers, w.finish()))
+}
+
+/// An optional layer's text: absent when blank (an empty file picker) unless given as a file.
+fn optional<'a>(
+    per: &per_layer::PerLayer,
+    layer: crate::error::LayerName,
+    text: &'a Option<String>,
+) -> Option<&'a str> {
+    match text.as_deref().filter(|t| !t.trim().is_empty()) {
+        Some(t) => Some(t),
+        None if per.file(layer).is_some() => Some(""),
+        None => None,
+    }
 }
 
 #[cfg(test)]

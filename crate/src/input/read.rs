@@ -149,8 +149,8 @@ pub fn schools(
         if matches!(reader, Reader::Osm) && !osm::is_school(&props) {
             w.skip(
                 layer,
-                "features not tagged amenity=school (the osm preset reads only those; for a \
-                 schools file of your own, name the schools layer in a mapping file)",
+                "features not tagged amenity=school (OpenStreetMap names read only those; for a \
+                 schools file of your own choose plain names for it: --names schools=plain)",
             );
             return Ok(());
         }

@@ -12,7 +12,10 @@ pub fn validate(layers: &mut Layers, w: &mut Warnings) -> Result<()> {
     let empty = |layer: LayerName, what: &str| {
         let skipped = w.skipped_in(layer);
         let note = if skipped > 0 {
-            format!(" ({skipped} feature(s) were skipped, see the warnings)")
+            format!(
+                " ({skipped} feature(s) were skipped: {})",
+                w.skipped_reasons(layer)
+            )
         } else {
             String::new()
         };

@@ -64,6 +64,17 @@ impl Warnings {
             .sum()
     }
 
+    /// The reasons features of `layer` were skipped, with their counts, in one line
+    /// (`3 features not tagged amenity=school (...)`), for an error that refers to them.
+    pub fn skipped_reasons(&self, layer: LayerName) -> String {
+        self.skipped
+            .iter()
+            .filter(|(l, _, _)| *l == layer)
+            .map(|(_, r, n)| format!("{n}: {r}"))
+            .collect::<Vec<_>>()
+            .join("; ")
+    }
+
     /// The listed warnings followed by one summary per capped kind and per skip reason.
     pub fn finish(mut self) -> Vec<Warning> {
         for (layer, kind, n) in &self.seen {

@@ -62,6 +62,7 @@ impl ProjectLayers {
             preset: self.preset,
             mapping: self.mapping.clone(),
             interventions,
+            per_layer: Default::default(),
         }
     }
 }
