@@ -17,6 +17,7 @@ pub mod geodesy;
 pub mod input;
 pub mod network;
 pub mod pipeline;
+pub mod range;
 pub mod risk;
 pub mod route;
 pub mod score;

@@ -112,6 +112,7 @@ pub fn run_audit(
     progress: &mut dyn Progress,
 ) -> Result<AuditOutput> {
     let t0 = progress.now_ms();
+    config.validate()?;
     if !progress.report(Stage::Parsing, 0, 1) {
         return Err(Error::Cancelled);
     }
@@ -502,6 +503,7 @@ pub fn check_layers(
     config: &Config,
     progress: &mut dyn Progress,
 ) -> Result<CheckOutput> {
+    config.validate()?;
     if !progress.report(Stage::Parsing, 0, 1) {
         return Err(Error::Cancelled);
     }

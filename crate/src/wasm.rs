@@ -93,6 +93,22 @@ pub fn default_config() -> String {
     serde_json::to_string(&Config::default()).unwrap_or_default()
 }
 
+/// The allowed range of every numeric config field, as JSON `[{field, min, min_exclusive,
+/// max}]`: the page's settings fields check against the core's own ranges.
+#[wasm_bindgen(js_name = configBounds)]
+pub fn config_bounds() -> String {
+    serde_json::to_string(&Config::bounds()).unwrap_or_default()
+}
+
+/// The core's check of a whole config: empty when it is valid, else the message.
+#[wasm_bindgen(js_name = checkConfig)]
+pub fn check_config(config_json: &str) -> String {
+    match Config::from_json(config_json) {
+        Ok(_) => String::new(),
+        Err(e) => e.to_string(),
+    }
+}
+
 /// A rule set shipped with the core, by name (`default`, ...), as JSON; empty when unknown.
 #[wasm_bindgen(js_name = ruleSet)]
 pub fn rule_set(name: &str) -> String {

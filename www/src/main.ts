@@ -454,7 +454,7 @@ renderLayerList();
 renderLegend();
 setState('starting');
 engine.start().then(() => {
-  settings.init(engine.defaultConfig, engine.ruleSets);
+  settings.init(engine.defaultConfig, engine.ruleSets, engine.configBounds);
   setState('idle');
   if (typeof CATCHWALK_AUTODEMO !== 'undefined' && CATCHWALK_AUTODEMO) loadDemo();
 }).catch((e) => {

@@ -139,7 +139,7 @@ export type ToWorker =
   | { type: 'plan'; id: number; layers: string; config: string; budget: number };
 
 export type FromWorker =
-  | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string> }
+  | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string>; configBounds?: string }
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
   | { type: 'done'; id: number; doc: string; ms: number }
   | { type: 'failed'; id: number; error: string };

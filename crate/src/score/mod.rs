@@ -19,6 +19,15 @@ pub struct ScoreConfig {
     pub plan: plan::PlanConfig,
 }
 
+impl ScoreConfig {
+    /// Range checks of the scoring settings.
+    pub fn validate(&self, at: &str, c: &mut crate::range::Checks) {
+        c.at_least(at, "walkable_share", self.walkable_share, 0.0, 1.0);
+        c.at_least(at, "safe_share", self.safe_share, 0.0, 1.0);
+        self.plan.validate(&format!("{at}.plan"), c);
+    }
+}
+
 impl Default for ScoreConfig {
     fn default() -> Self {
         ScoreConfig {
