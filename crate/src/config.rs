@@ -69,7 +69,13 @@ impl RouteConfig {
     /// Range checks: a negative risk weight would make costs negative.
     pub fn validate(&self, at: &str, c: &mut Checks) {
         c.at_least(at, "detour_cap", self.detour_cap, 1.0, 100.0);
-        c.at_least(at, "metres_per_risk_point", self.metres_per_risk_point, 0.0, 1e6);
+        c.at_least(
+            at,
+            "metres_per_risk_point",
+            self.metres_per_risk_point,
+            0.0,
+            1e6,
+        );
     }
 }
 
@@ -106,7 +112,13 @@ impl BenefitConfig {
     pub fn validate(&self, at: &str, c: &mut Checks) {
         c.above(at, "walking_speed_mps", self.walking_speed_mps, 0.0, 5.0);
         c.above(at, "walk_zone_m", self.walk_zone_m, 0.0, 100_000.0);
-        c.above(at, "guideline_min_per_day", self.guideline_min_per_day, 0.0, 1440.0);
+        c.above(
+            at,
+            "guideline_min_per_day",
+            self.guideline_min_per_day,
+            0.0,
+            1440.0,
+        );
         c.above(at, "walking_met", self.walking_met, 0.0, 25.0);
         c.above(at, "body_mass_kg", self.body_mass_kg, 0.0, 300.0);
     }

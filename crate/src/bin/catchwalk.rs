@@ -3,6 +3,7 @@
 
 use catchwalk::config::Config;
 use catchwalk::export;
+use catchwalk::export::atomic::{check_out_dir, OutputDir};
 use catchwalk::input::{HomesFormat, Preset, RawLayers};
 use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
 use catchwalk::score::plan::plan_upgrades;
@@ -51,8 +52,8 @@ enum Command {
     Plan {
         #[command(flatten)]
         layers: LayerArgs,
-        /// How many upgrades to choose.
-        #[arg(long, value_name = "N")]
+        /// How many upgrades to choose (a whole number, 0 or more).
+        #[arg(long, value_name = "N", allow_negative_numbers = true, value_parser = parse_budget)]
         budget: usize,
         /// Folder for the outputs (created if missing).
         #[arg(long, value_name = "DIR")]
@@ -104,6 +105,13 @@ struct LayerArgs {
     /// Safe-route rule set: a shipped name (default, pa-447) or a rule-set JSON file.
     #[arg(long, value_name = "NAME|FILE")]
     rules: Option<String>,
+}
+
+/// `--budget`: a whole number of upgrades, with a message that says so.
+fn parse_budget(s: &str) -> Result<usize, String> {
+    s.trim().parse::<usize>().map_err(|_| {
+        format!("--budget {s}: give how many upgrades to choose, a whole number 0 or more (for example --budget 5)")
+    })
 }
 
 fn read(path: &Path) -> Result<String, String> {
@@ -192,9 +200,18 @@ impl Progress for Bar {
     }
 }
 
-fn write(dir: &Path, name: &str, text: &str) -> Result<(), String> {
-    let p = dir.join(name);
-    std::fs::write(&p, text).map_err(|e| format!("cannot write {}: {e}", p.display()))
+/// Writes `files` into a new folder and swaps it in for `out` whole (export::atomic).
+fn write_all(out: &Path, files: &[(String, String)]) -> Result<(), String> {
+    let dir = OutputDir::begin(out)?;
+    for (name, text) in files {
+        dir.write(name, text)?;
+    }
+    dir.commit()
+}
+
+/// The CSV on the Web metadata files beside the CSVs (export::csvw).
+fn metadata_files(meta: Vec<(String, serde_json::Value)>) -> Vec<(String, String)> {
+    meta.into_iter().map(|(n, v)| (n, json(&v))).collect()
 }
 
 fn json<T: serde::Serialize>(v: &T) -> String {
@@ -204,36 +221,35 @@ fn json<T: serde::Serialize>(v: &T) -> String {
 fn run(cli: Cli) -> Result<(), String> {
     match cli.command {
         Command::Audit { layers, out } => {
+            check_out_dir(&out)?;
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
-            std::fs::create_dir_all(&out)
-                .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-            write(&out, "summary.json", &json(&export::summary_json(&result)))?;
-            write(&out, "homes.csv", &export::homes_csv(&result))?;
-            write(
-                &out,
-                "routes.geojson",
-                &json(&export::routes_geojson(&result)),
-            )?;
-            write(
-                &out,
-                "qa.geojson",
-                &json(&export::qa_geojson(&result.network.qa)),
-            )?;
-            write(
-                &out,
-                "centrelines.geojson",
-                &json(&export::centrelines_geojson(&result)),
-            )?;
-            write(&out, "catchments.csv", &export::catchments_csv(&result))?;
-            write(&out, "hotspots.csv", &export::hotspots_csv(&result))?;
-            write(
-                &out,
-                "hotspots.geojson",
-                &json(&export::hotspots_geojson(&result)),
-            )?;
+            let mut files = vec![
+                ("summary.json".into(), json(&export::summary_json(&result))),
+                ("homes.csv".into(), export::homes_csv(&result)),
+                (
+                    "routes.geojson".into(),
+                    json(&export::routes_geojson(&result)),
+                ),
+                (
+                    "qa.geojson".into(),
+                    json(&export::qa_geojson(&result.network.qa)),
+                ),
+                (
+                    "centrelines.geojson".into(),
+                    json(&export::centrelines_geojson(&result)),
+                ),
+                ("catchments.csv".into(), export::catchments_csv(&result)),
+                ("hotspots.csv".into(), export::hotspots_csv(&result)),
+                (
+                    "hotspots.geojson".into(),
+                    json(&export::hotspots_geojson(&result)),
+                ),
+            ];
+            files.extend(metadata_files(export::csvw::audit_metadata()));
+            write_all(&out, &files)?;
             print_balance(&result);
             for w in &result.warnings {
                 eprintln!("warning: {w}");
@@ -253,15 +269,18 @@ fn run(cli: Cli) -> Result<(), String> {
             budget,
             out,
         } => {
+            check_out_dir(&out)?;
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
             let plan = plan_upgrades(&result, &result.scores.homes, budget);
-            std::fs::create_dir_all(&out)
-                .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-            write(&out, "plan.json", &json(&export::plan_json(&result, &plan)))?;
-            write(&out, "plan.csv", &export::plan_csv(&plan))?;
+            let mut files = vec![
+                ("plan.json".into(), json(&export::plan_json(&result, &plan))),
+                ("plan.csv".into(), export::plan_csv(&plan)),
+            ];
+            files.extend(metadata_files(vec![export::csvw::plan_metadata()]));
+            write_all(&out, &files)?;
             say!("rank upgrade          children_gained  street");
             for s in &plan.steps {
                 say!(
@@ -292,6 +311,9 @@ fn run(cli: Cli) -> Result<(), String> {
             Ok(())
         }
         Command::Check { layers, out } => {
+            if let Some(out) = &out {
+                check_out_dir(out)?;
+            }
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = check_layers(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
@@ -304,12 +326,12 @@ fn run(cli: Cli) -> Result<(), String> {
             s["warnings"] = serde_json::json!(result.warnings.len());
             say!("{}", json(&s));
             if let Some(out) = out {
-                std::fs::create_dir_all(&out)
-                    .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-                write(
+                write_all(
                     &out,
-                    "qa.geojson",
-                    &json(&export::qa_geojson(&result.network.qa)),
+                    &[(
+                        "qa.geojson".into(),
+                        json(&export::qa_geojson(&result.network.qa)),
+                    )],
                 )?;
             }
             Ok(())

@@ -64,7 +64,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
     header.push("shortest_risk".into());
     header.extend(["attach_segment", "attach_side", "attach_offset_m", "snap_m"].map(String::from));
     header.extend(super::catchments_csv::HOME_SCORE_COLUMNS.map(String::from));
-    let _ = w.write_record(&header);
+    super::csv_safe::write_row(&mut w, header);
     let speed = out.config.benefit.walking_speed_mps;
     let g = &out.network.graph;
     for (i, h) in out.homes.iter().enumerate() {
@@ -108,8 +108,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
         row.extend(super::catchments_csv::home_score_values(
             out.scores.homes.get(i),
         ));
-        let _ = w.write_record(&row);
+        super::csv_safe::write_row(&mut w, row);
     }
-    let bytes = w.into_inner().unwrap_or_default();
-    String::from_utf8(bytes).unwrap_or_default()
+    super::csv_safe::csv_text(w)
 }

@@ -44,39 +44,45 @@ pub fn hotspots_geojson(out: &AuditOutput) -> Value {
 /// Hotspots as CSV, ranked.
 pub fn hotspots_csv(out: &AuditOutput) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    let _ = w.write_record([
-        "rank",
-        "edge",
-        "kind",
-        "street_id",
-        "street",
-        "class",
-        "control",
-        "speed_kmh",
-        "lanes",
-        "children",
-        "risk",
-        "product",
-        "wait_s",
-        "los",
-    ]);
+    super::csv_safe::write_row(
+        &mut w,
+        [
+            "rank",
+            "edge",
+            "kind",
+            "street_id",
+            "street",
+            "class",
+            "control",
+            "speed_kmh",
+            "lanes",
+            "children",
+            "risk",
+            "product",
+            "wait_s",
+            "los",
+        ],
+    );
     for h in &out.scores.hotspots {
-        let _ = w.write_record([
-            h.rank.to_string(),
-            h.edge.to_string(),
-            h.kind.to_string(),
-            h.street_id.clone(),
-            h.street.clone(),
-            h.class.to_string(),
-            h.control.clone(),
-            h.speed_kmh.to_string(),
-            h.lanes.to_string(),
-            h.children.to_string(),
-            format!("{:.4}", h.risk),
-            format!("{:.4}", h.product),
-            h.wait_s.map(|x| round2(x).to_string()).unwrap_or_default(),
-            h.los.map(|l| l.as_str().to_string()).unwrap_or_default(),
-        ]);
+        super::csv_safe::write_row(
+            &mut w,
+            [
+                h.rank.to_string(),
+                h.edge.to_string(),
+                h.kind.to_string(),
+                h.street_id.clone(),
+                h.street.clone(),
+                h.class.to_string(),
+                h.control.clone(),
+                h.speed_kmh.to_string(),
+                h.lanes.to_string(),
+                h.children.to_string(),
+                format!("{:.4}", h.risk),
+                format!("{:.4}", h.product),
+                h.wait_s.map(|x| round2(x).to_string()).unwrap_or_default(),
+                h.los.map(|l| l.as_str().to_string()).unwrap_or_default(),
+            ],
+        );
     }
-    super::shareable_csv(w)
+    super::csv_safe::csv_text(w)
 }

@@ -67,7 +67,6 @@ impl ControlFactors {
         }
     }
 
-
     pub fn device(&self, d: Device) -> f64 {
         let f = match d {
             Device::None => self.none,

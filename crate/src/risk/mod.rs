@@ -61,8 +61,20 @@ impl RiskConfig {
         c.above(at, "walk_mps", self.walk_mps, 0.0, 5.0);
         c.at_least(at, "start_up_s", self.start_up_s, 0.0, 60.0);
         c.above(at, "lane_width_m", self.lane_width_m, 0.0, 10.0);
-        c.above(at, "reference_speed_kmh", self.reference_speed_kmh, 0.0, 200.0);
-        c.at_least(at, "reference_lanes", self.reference_lanes as f64, 1.0, 20.0);
+        c.above(
+            at,
+            "reference_speed_kmh",
+            self.reference_speed_kmh,
+            0.0,
+            200.0,
+        );
+        c.at_least(
+            at,
+            "reference_lanes",
+            self.reference_lanes as f64,
+            1.0,
+            20.0,
+        );
         c.at_least(at, "shoulder_min_m", self.shoulder_min_m, 0.0, 20.0);
         c.at_least(at, "shoulder_factor", self.shoulder_factor, 0.0, 10.0);
     }
