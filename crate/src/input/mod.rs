@@ -6,6 +6,7 @@ pub mod geojson_read;
 pub mod homes_csv;
 pub mod mapping;
 pub mod model;
+pub mod plausible;
 pub mod presets;
 mod read;
 pub mod speed;
@@ -100,6 +101,7 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
         layers.catchments = read::catchments(text, &fields("catchments", fields::CATCHMENTS))?;
     }
     validate::validate(&mut layers, &mut w)?;
+    plausible::check(&mut layers, &mut w);
     Ok((layers, w.finish()))
 }
 
