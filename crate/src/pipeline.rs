@@ -120,6 +120,16 @@ pub fn run_audit(
     let t1 = progress.now_ms();
     let mut out = audit_layers(layers, config, progress)?;
     out.warnings.splice(0..0, warnings);
+    // Homes not reached are said in words on the terminal and the page (score::unreached).
+    let unreached = crate::score::unreached::unreached(&out);
+    if let Some(message) =
+        crate::score::unreached::describe(&unreached, config.network.max_attach_m)
+    {
+        out.warnings.push(Warning {
+            at: crate::error::Location::layer(crate::error::LayerName::Homes),
+            message,
+        });
+    }
     out.timings.parse_ms = t1 - t0;
     out.timings.total_ms = progress.now_ms() - t0;
     Ok(out)

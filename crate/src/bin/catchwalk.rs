@@ -254,9 +254,11 @@ fn run(cli: Cli) -> Result<(), String> {
             for w in &result.warnings {
                 eprintln!("warning: {w}");
             }
+            let not_reached = result.homes.iter().filter(|h| h.shortest.is_none()).count();
             say!(
-                "audited {} homes for {} schools in {:.0} ms; wrote {}",
+                "audited {} homes ({} reached, {not_reached} not reached) for {} schools in {:.0} ms; wrote {}",
                 result.homes.len(),
+                result.homes.len() - not_reached,
                 result.layers.schools.len(),
                 result.timings.total_ms,
                 out.display()

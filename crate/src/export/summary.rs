@@ -78,6 +78,7 @@ pub fn summary_json(out: &AuditOutput) -> Value {
     let mut doc = network_summary(&out.layers, g, qa);
     let extra = json!({
         "warnings": out.warnings.len(),
+        "unreached": crate::score::unreached::unreached(out),
         "homes": out.layers.homes.len(),
         "children": out.layers.homes.iter().map(|h| u64::from(h.children)).sum::<u64>(),
         "walk_zone_m": walk_zone,

@@ -43,6 +43,7 @@ pub mod catchment;
 pub mod home;
 pub mod hotspots;
 pub mod plan;
+pub mod unreached;
 
 use crate::config::Config;
 use crate::input::Layers;
