@@ -120,6 +120,12 @@ pub fn run_audit(
     let t1 = progress.now_ms();
     let mut out = audit_layers(layers, config, progress)?;
     out.warnings.splice(0..0, warnings);
+    if let Some(message) = out.network.qa.headline() {
+        out.warnings.push(Warning {
+            at: crate::error::Location::layer(crate::error::LayerName::Streets),
+            message,
+        });
+    }
     // Homes not reached are said in words on the terminal and the page (score::unreached).
     let unreached = crate::score::unreached::unreached(&out);
     if let Some(message) =
@@ -522,6 +528,13 @@ pub fn check_layers(
         return Err(Error::Cancelled);
     }
     let (network, _, _) = prepare_network(&layers, config);
+    let mut warnings = warnings;
+    if let Some(message) = network.qa.headline() {
+        warnings.push(Warning {
+            at: crate::error::Location::layer(crate::error::LayerName::Streets),
+            message,
+        });
+    }
     Ok(CheckOutput {
         layers,
         warnings,

@@ -4,7 +4,7 @@
 use catchwalk::config::Config;
 use catchwalk::export;
 use catchwalk::export::atomic::{check_out_dir, OutputDir};
-use catchwalk::input::{HomesFormat, Preset, RawLayers};
+use catchwalk::input::{Preset, RawLayers};
 use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
 use catchwalk::score::plan::plan_upgrades;
 use catchwalk::score::rules::RuleSet;
@@ -84,7 +84,7 @@ struct LayerArgs {
     /// Schools: GeoJSON Points or Polygons.
     #[arg(long, value_name = "FILE")]
     schools: PathBuf,
-    /// Homes: GeoJSON Points, or CSV with lon/lat columns (by the .csv extension).
+    /// Homes: GeoJSON Points, or CSV with lon/lat columns (told apart by content).
     #[arg(long, value_name = "FILE")]
     homes: PathBuf,
     /// Crossing points: GeoJSON Points with their traffic control.
@@ -115,7 +115,8 @@ fn parse_budget(s: &str) -> Result<usize, String> {
 }
 
 fn read(path: &Path) -> Result<String, String> {
-    std::fs::read_to_string(path).map_err(|e| format!("cannot read {}: {e}", path.display()))
+    let bytes = std::fs::read(path).map_err(|e| format!("cannot read {}: {e}", path.display()))?;
+    catchwalk::input::text::decode_utf8(&path.display().to_string(), &bytes)
 }
 
 fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
@@ -123,16 +124,14 @@ fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
 }
 
 fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
-    let homes_format = match a.homes.extension().and_then(|e| e.to_str()) {
-        Some(e) if e.eq_ignore_ascii_case("csv") => HomesFormat::Csv,
-        _ => HomesFormat::GeoJson,
-    };
+    let homes = read(&a.homes)?;
     let raw = RawLayers {
         streets: read(&a.streets)?,
         crossings: read_opt(&a.crossings)?,
         schools: read(&a.schools)?,
-        homes: read(&a.homes)?,
-        homes_format,
+        // GeoJSON or CSV by content, whatever the extension (a CSV named .txt).
+        homes_format: catchwalk::input::homes_csv::sniff_format(&homes),
+        homes,
         catchments: read_opt(&a.catchments)?,
         preset: match a.preset {
             PresetArg::Osm => Preset::Osm,

@@ -10,6 +10,7 @@ pub mod plausible;
 pub mod presets;
 mod read;
 pub mod speed;
+pub mod text;
 pub mod validate;
 pub mod values;
 pub mod warnings;
@@ -83,6 +84,18 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
             Reader::Plain(f)
         }
     };
+    for (layer, text) in [
+        (crate::error::LayerName::Streets, &raw.streets),
+        (crate::error::LayerName::Schools, &raw.schools),
+        (crate::error::LayerName::Homes, &raw.homes),
+    ] {
+        if text.trim_start_matches('\u{feff}').trim().is_empty() {
+            return Err(crate::error::Error::input(
+                crate::error::Location::layer(layer),
+                "the file is empty (0 bytes or only blank space); load the layer's file with its features",
+            ));
+        }
+    }
     let mut w = warnings::Warnings::default();
     let mut layers = Layers {
         streets: read::streets(&raw.streets, pick("streets", &street_f), &mut w)?,
