@@ -46,15 +46,15 @@ impl Qa {
     }
 
     /// One line with the QA counts a planner must see on the terminal and the page, not only
-    /// in `summary.json` (crossing points skipped because no street is near, dangling ends,
-    /// near-misses, tiny components); `None` when there are none.
+    /// in `summary.json` (crossing points skipped because no street is near, near-misses, tiny
+    /// components; dangling ends are left to qa.geojson, as every cul-de-sac has one); `None`
+    /// when there are none.
     pub fn headline(&self) -> Option<String> {
         let parts: Vec<String> = [
             (
                 QaKind::UnattachedCrossing,
                 "crossing point(s) skipped: no street near enough to attach",
             ),
-            (QaKind::DanglingEnd, "dangling street end(s)"),
             (
                 QaKind::NearMiss,
                 "near-miss(es) between street ends that did not join",
