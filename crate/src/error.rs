@@ -55,11 +55,12 @@ impl Location {
             property: None,
         }
     }
+    /// A feature's location; a very long id is clipped (the page shows it as it comes).
     pub fn feature(layer: LayerName, feature: usize, id: Option<String>) -> Self {
         Location {
             layer,
             feature: Some(feature),
-            id,
+            id: id.map(|i| crate::input::text::clip(&i, MAX_SHOWN).into_owned()),
             property: None,
         }
     }

@@ -176,6 +176,8 @@ struct AuditDoc<'a> {
     hotspots: Value,
     layers: Value,
     warnings: &'a [crate::error::Warning],
+    /// CSV on the Web metadata of each CSV (columns, units, caution), by metadata file name.
+    csv_metadata: serde_json::Map<String, Value>,
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
@@ -208,6 +210,7 @@ pub fn audit(
                 .collect::<Vec<_>>(),
         }),
         warnings: &out.warnings,
+        csv_metadata: export::csvw::audit_metadata().into_iter().collect(),
     };
     serde_json::to_string(&doc).map_err(to_js)
 }

@@ -75,7 +75,11 @@ fn read_case(dir: &Path) -> Result<(RawLayers, Config), String> {
 fn words(v: &Value) -> Vec<String> {
     v["words"]
         .as_array()
-        .map(|a| a.iter().filter_map(|w| w.as_str().map(String::from)).collect())
+        .map(|a| {
+            a.iter()
+                .filter_map(|w| w.as_str().map(String::from))
+                .collect()
+        })
         .unwrap_or_default()
 }
 
@@ -130,7 +134,10 @@ fn every_case_gives_its_expected_outcome_through_the_library() {
         if v["command"] != "audit" {
             continue; // command-line arguments: the binary test below
         }
-        let name = dir.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+        let name = dir
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default();
         let result = read_case(&dir).and_then(|(raw, config)| {
             run_audit(&raw, &config, &mut Silent).map_err(|e| {
                 let loc = error_location(&e);
@@ -145,45 +152,81 @@ fn every_case_gives_its_expected_outcome_through_the_library() {
         let max = v["max_message_chars"].as_u64().map(|m| m as usize);
         match (v["outcome"].as_str(), result) {
             (Some("error"), Err(text)) => {
-                if text.contains("[at the wrong place") || !words(&v).iter().all(|w| text.contains(w.as_str())) {
-                    failures.push(format!("{name}: error '{text}' lacks {:?} or names the wrong place", words(&v)));
+                if text.contains("[at the wrong place")
+                    || !words(&v).iter().all(|w| text.contains(w.as_str()))
+                {
+                    failures.push(format!(
+                        "{name}: error '{text}' lacks {:?} or names the wrong place",
+                        words(&v)
+                    ));
                 }
                 if max.is_some_and(|m| text.chars().count() > m) {
-                    failures.push(format!("{name}: error message {} characters long", text.chars().count()));
+                    failures.push(format!(
+                        "{name}: error message {} characters long",
+                        text.chars().count()
+                    ));
                 }
             }
-            (Some("error"), Ok(_)) => failures.push(format!("{name}: expected an error, the audit ran")),
-            (Some(kind), Err(text)) => failures.push(format!("{name}: expected {kind}, got error '{text}'")),
+            (Some("error"), Ok(_)) => {
+                failures.push(format!("{name}: expected an error, the audit ran"))
+            }
+            (Some(kind), Err(text)) => {
+                failures.push(format!("{name}: expected {kind}, got error '{text}'"))
+            }
             (Some(kind), Ok(out)) => {
                 if kind == "warning" && !out.warnings.iter().any(|w| warning_matches(w, &v)) {
                     let got: Vec<String> = out.warnings.iter().map(|w| w.to_string()).collect();
-                    failures.push(format!("{name}: no warning with {:?} at {} {}: {got:?}", words(&v), v["layer"], v["feature"]));
+                    failures.push(format!(
+                        "{name}: no warning with {:?} at {} {}: {got:?}",
+                        words(&v),
+                        v["layer"],
+                        v["feature"]
+                    ));
                 }
                 if kind == "ok" && !out.warnings.is_empty() {
                     let got: Vec<String> = out.warnings.iter().map(|w| w.to_string()).collect();
                     failures.push(format!("{name}: expected no warning, got {got:?}"));
                 }
                 if let Some(m) = max {
-                    if let Some(w) = out.warnings.iter().find(|w| w.to_string().chars().count() > m) {
-                        failures.push(format!("{name}: warning {} characters long", w.to_string().chars().count()));
+                    if let Some(w) = out
+                        .warnings
+                        .iter()
+                        .find(|w| w.to_string().chars().count() > m)
+                    {
+                        failures.push(format!(
+                            "{name}: warning {} characters long",
+                            w.to_string().chars().count()
+                        ));
                     }
                 }
                 for cell in v["csv_cells"].as_array().into_iter().flatten() {
-                    let (file, col, want) = (cell[0].as_str().unwrap_or(""), cell[1].as_str().unwrap_or(""), cell[2].as_str().unwrap_or(""));
+                    let (file, col, want) = (
+                        cell[0].as_str().unwrap_or(""),
+                        cell[1].as_str().unwrap_or(""),
+                        cell[2].as_str().unwrap_or(""),
+                    );
                     let text = match file {
                         "homes.csv" => catchwalk::export::homes_csv(&out),
                         "catchments.csv" => catchwalk::export::catchments_csv(&out),
                         _ => catchwalk::export::hotspots_csv(&out),
                     };
                     if !column(&text, col).iter().any(|c| c == want) {
-                        failures.push(format!("{name}: {file} column {col} has no cell {want:?}: {:?}", column(&text, col)));
+                        failures.push(format!(
+                            "{name}: {file} column {col} has no cell {want:?}: {:?}",
+                            column(&text, col)
+                        ));
                     }
                 }
             }
             (None, _) => failures.push(format!("{name}: expected.json has no outcome")),
         }
     }
-    assert!(failures.is_empty(), "{} case(s) failed:\n{}", failures.len(), failures.join("\n"));
+    assert!(
+        failures.is_empty(),
+        "{} case(s) failed:\n{}",
+        failures.len(),
+        failures.join("\n")
+    );
 }
 
 #[test]
@@ -194,7 +237,10 @@ fn every_case_gives_its_exit_code_and_words_through_the_binary() {
     std::fs::create_dir_all(&scratch).expect("scratch folder");
     let mut failures = Vec::new();
     for (dir, v) in corpus() {
-        let name = dir.file_name().map(|n| n.to_string_lossy().into_owned()).unwrap_or_default();
+        let name = dir
+            .file_name()
+            .map(|n| n.to_string_lossy().into_owned())
+            .unwrap_or_default();
         let mut cmd = std::process::Command::new(bin);
         cmd.arg(v["command"].as_str().unwrap_or("audit"));
         for a in v["args"].as_array().into_iter().flatten() {
@@ -202,8 +248,14 @@ fn every_case_gives_its_exit_code_and_words_through_the_binary() {
         }
         cmd.arg("--streets").arg(dir.join("streets.geojson"));
         cmd.arg("--schools").arg(dir.join("schools.geojson"));
-        cmd.arg("--homes").arg(homes_file(&dir).unwrap_or_else(|| dir.join("homes.geojson")));
-        for (flag, file) in [("--crossings", "crossings.geojson"), ("--catchments", "catchments.geojson"), ("--mapping", "mapping.json"), ("--config", "config.json")] {
+        cmd.arg("--homes")
+            .arg(homes_file(&dir).unwrap_or_else(|| dir.join("homes.geojson")));
+        for (flag, file) in [
+            ("--crossings", "crossings.geojson"),
+            ("--catchments", "catchments.geojson"),
+            ("--mapping", "mapping.json"),
+            ("--config", "config.json"),
+        ] {
             if dir.join(file).is_file() {
                 cmd.arg(flag).arg(dir.join(file));
             }
@@ -217,14 +269,27 @@ fn every_case_gives_its_exit_code_and_words_through_the_binary() {
         let want = v["exit_code"].as_i64().unwrap_or(0) as i32;
         let stderr = String::from_utf8_lossy(&out.stderr);
         if code != want {
-            failures.push(format!("{name}: exit code {code}, expected {want}: {stderr}"));
+            failures.push(format!(
+                "{name}: exit code {code}, expected {want}: {stderr}"
+            ));
         } else if !words(&v).iter().all(|w| stderr.contains(w.as_str())) {
             failures.push(format!("{name}: stderr lacks {:?}: {stderr}", words(&v)));
         }
-        if want == 0 && !scratch.join(&name).join("homes.csv-metadata.json").is_file() && v["command"] == "audit" {
+        if want == 0
+            && !scratch
+                .join(&name)
+                .join("homes.csv-metadata.json")
+                .is_file()
+            && v["command"] == "audit"
+        {
             failures.push(format!("{name}: no homes.csv-metadata.json written"));
         }
     }
     let _ = std::fs::remove_dir_all(&scratch);
-    assert!(failures.is_empty(), "{} case(s) failed:\n{}", failures.len(), failures.join("\n"));
+    assert!(
+        failures.is_empty(),
+        "{} case(s) failed:\n{}",
+        failures.len(),
+        failures.join("\n")
+    );
 }

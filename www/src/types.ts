@@ -107,6 +107,8 @@ export interface Home {
 
 export interface AuditDoc {
   summary: Summary;
+  /** CSV on the Web metadata of each CSV the core writes (file name -> document). */
+  csv_metadata?: Record<string, { url: string; 'dc:title': string; tableSchema: { columns: { name: string; 'dc:description': string; 'schema:unitText'?: string }[] } }>;
   homes_csv: string;
   routes: FeatureCollection<RouteProps>;
   qa: FeatureCollection;
