@@ -142,6 +142,9 @@ fn catchments(layers: &Layers, w: &mut Warnings) {
     }
 }
 
+/// A segment's key: its two end keys in order, and its vertical layer.
+type SegmentKey = ((i64, i64), (i64, i64), i32);
+
 /// A point key at about a centimetre (1e-7 degree).
 fn key(p: [f64; 2]) -> (i64, i64) {
     ((p[0] * 1e7).round() as i64, (p[1] * 1e7).round() as i64)
@@ -150,7 +153,7 @@ fn key(p: [f64; 2]) -> (i64, i64) {
 /// A segment drawn twice (in two features, or twice in one) and a line doubling back on
 /// itself (A-B-A) add length the network does not have: network QA.
 fn drawn_twice(layers: &Layers, w: &mut Warnings) {
-    let mut seen: HashMap<((i64, i64), (i64, i64), i32), usize> = HashMap::new();
+    let mut seen: HashMap<SegmentKey, usize> = HashMap::new();
     for (si, s) in layers.streets.iter().enumerate() {
         for (k, win) in s.line.windows(3).enumerate() {
             if let [a, _, c] = win {
