@@ -1,6 +1,7 @@
 //! `catchments.csv` (one row per school), the per-home score columns of `homes.csv`, and the
 //! upgrade plan (`plan.json`, `plan.csv`).
 
+use super::csv_safe::{csv_text, SafeRow};
 use super::round2;
 use crate::pipeline::AuditOutput;
 use crate::score::home::HomeScore;
@@ -61,62 +62,56 @@ fn opt(x: Option<f64>, digits: usize) -> String {
 /// The CSV text of `catchments.csv`.
 pub fn catchments_csv(out: &AuditOutput) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    super::csv_safe::write_row(
-        &mut w,
-        [
-            "school_id",
-            "school_name",
-            "children",
-            "children_routed",
-            "children_in_walk_zone",
-            "children_safe_route",
-            "children_hazardous",
-            "walk_zone_share",
-            "route_ok_share",
-            "safe_route_share",
-            "gap",
-            "mean_risk_per_trip",
-            "p90_risk_per_trip",
-            "mean_active_minutes",
-            "minutes_per_risk_point",
-            "quadrant",
-            "walkable_share_threshold",
-            "safe_share_threshold",
-            "walk_zone_m",
-            "rules",
-        ],
-    );
+    w.safe_row([
+        "school_id",
+        "school_name",
+        "children",
+        "children_routed",
+        "children_in_walk_zone",
+        "children_safe_route",
+        "children_hazardous",
+        "walk_zone_share",
+        "route_ok_share",
+        "safe_route_share",
+        "gap",
+        "mean_risk_per_trip",
+        "p90_risk_per_trip",
+        "mean_active_minutes",
+        "minutes_per_risk_point",
+        "quadrant",
+        "walkable_share_threshold",
+        "safe_share_threshold",
+        "walk_zone_m",
+        "rules",
+    ]);
     for c in &out.scores.catchments {
         let Some(school) = out.layers.schools.get(c.school) else {
             continue;
         };
-        super::csv_safe::write_row(
-            &mut w,
-            [
-                school.id.clone(),
-                school.name.clone(),
-                c.children.to_string(),
-                c.children_routed.to_string(),
-                c.children_in_walk_zone.to_string(),
-                c.children_safe_route.to_string(),
-                c.children_hazardous.to_string(),
-                opt(c.walk_zone_share, 4),
-                opt(c.route_ok_share, 4),
-                opt(c.safe_route_share, 4),
-                opt(c.gap, 4),
-                opt(c.mean_risk_per_trip, 4),
-                opt(c.p90_risk_per_trip, 4),
-                opt(c.mean_active_minutes, 2),
-                opt(c.minutes_per_risk_point, 2),
-                c.quadrant.as_str().to_string(),
-                c.walkable_share_threshold.to_string(),
-                c.safe_share_threshold.to_string(),
-                out.config.benefit.walk_zone_m.to_string(),
-                out.config.score.rules.name.clone(),
-            ],
-        );
+        w.safe_row([
+            school.id.clone(),
+            school.name.clone(),
+            c.children.to_string(),
+            c.children_routed.to_string(),
+            c.children_in_walk_zone.to_string(),
+            c.children_safe_route.to_string(),
+            c.children_hazardous.to_string(),
+            opt(c.walk_zone_share, 4),
+            opt(c.route_ok_share, 4),
+            opt(c.safe_route_share, 4),
+            opt(c.gap, 4),
+            opt(c.mean_risk_per_trip, 4),
+            opt(c.p90_risk_per_trip, 4),
+            opt(c.mean_active_minutes, 2),
+            opt(c.minutes_per_risk_point, 2),
+            c.quadrant.as_str().to_string(),
+            c.walkable_share_threshold.to_string(),
+            c.safe_share_threshold.to_string(),
+            out.config.benefit.walk_zone_m.to_string(),
+            out.config.score.rules.name.clone(),
+        ]);
     }
-    super::csv_safe::csv_text(w)
+    csv_text(w)
 }
 
 /// The per-catchment figures as JSON, for `summary.json`.
@@ -154,33 +149,27 @@ pub fn plan_json(out: &AuditOutput, plan: &Plan) -> Value {
 /// The chosen upgrades as CSV (`plan.csv`).
 pub fn plan_csv(plan: &Plan) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    super::csv_safe::write_row(
-        &mut w,
-        [
-            "rank",
-            "upgrade",
-            "edge",
-            "street_id",
-            "street",
-            "children_gained",
-            "risk_reduction",
-            "safe_children_after",
-        ],
-    );
+    w.safe_row([
+        "rank",
+        "upgrade",
+        "edge",
+        "street_id",
+        "street",
+        "children_gained",
+        "risk_reduction",
+        "safe_children_after",
+    ]);
     for s in &plan.steps {
-        super::csv_safe::write_row(
-            &mut w,
-            [
-                s.rank.to_string(),
-                s.upgrade.as_str().to_string(),
-                s.edge.to_string(),
-                s.street_id.clone(),
-                s.street.clone(),
-                s.children_gained.to_string(),
-                format!("{:.4}", s.risk_reduction),
-                s.safe_children_after.to_string(),
-            ],
-        );
+        w.safe_row([
+            s.rank.to_string(),
+            s.upgrade.as_str().to_string(),
+            s.edge.to_string(),
+            s.street_id.clone(),
+            s.street.clone(),
+            s.children_gained.to_string(),
+            format!("{:.4}", s.risk_reduction),
+            s.safe_children_after.to_string(),
+        ]);
     }
-    super::csv_safe::csv_text(w)
+    csv_text(w)
 }

@@ -75,6 +75,24 @@ where
     let _ = w.write_record(&cells);
 }
 
+/// [`write_row`] as a method of the writer: `w.safe_row([...])`.
+pub trait SafeRow {
+    fn safe_row<I, T>(&mut self, row: I)
+    where
+        I: IntoIterator<Item = T>,
+        T: AsRef<str>;
+}
+
+impl SafeRow for csv::Writer<Vec<u8>> {
+    fn safe_row<I, T>(&mut self, row: I)
+    where
+        I: IntoIterator<Item = T>,
+        T: AsRef<str>,
+    {
+        write_row(self, row);
+    }
+}
+
 /// The CSV text of a writer into memory: RFC 4180, header first, nothing before it.
 pub fn csv_text(w: csv::Writer<Vec<u8>>) -> String {
     String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default()

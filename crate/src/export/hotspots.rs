@@ -1,6 +1,7 @@
 //! `hotspots.geojson` and `hotspots.csv`: crossings and sides ranked by children x risk.
 //! Edges, not homes: safe to share.
 
+use super::csv_safe::{csv_text, SafeRow};
 use super::geometry::step_line;
 use super::round2;
 use crate::pipeline::AuditOutput;
@@ -44,45 +45,39 @@ pub fn hotspots_geojson(out: &AuditOutput) -> Value {
 /// Hotspots as CSV, ranked.
 pub fn hotspots_csv(out: &AuditOutput) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    super::csv_safe::write_row(
-        &mut w,
-        [
-            "rank",
-            "edge",
-            "kind",
-            "street_id",
-            "street",
-            "class",
-            "control",
-            "speed_kmh",
-            "lanes",
-            "children",
-            "risk",
-            "product",
-            "wait_s",
-            "los",
-        ],
-    );
+    w.safe_row([
+        "rank",
+        "edge",
+        "kind",
+        "street_id",
+        "street",
+        "class",
+        "control",
+        "speed_kmh",
+        "lanes",
+        "children",
+        "risk",
+        "product",
+        "wait_s",
+        "los",
+    ]);
     for h in &out.scores.hotspots {
-        super::csv_safe::write_row(
-            &mut w,
-            [
-                h.rank.to_string(),
-                h.edge.to_string(),
-                h.kind.to_string(),
-                h.street_id.clone(),
-                h.street.clone(),
-                h.class.to_string(),
-                h.control.clone(),
-                h.speed_kmh.to_string(),
-                h.lanes.to_string(),
-                h.children.to_string(),
-                format!("{:.4}", h.risk),
-                format!("{:.4}", h.product),
-                h.wait_s.map(|x| round2(x).to_string()).unwrap_or_default(),
-                h.los.map(|l| l.as_str().to_string()).unwrap_or_default(),
-            ],
-        );
+        w.safe_row([
+            h.rank.to_string(),
+            h.edge.to_string(),
+            h.kind.to_string(),
+            h.street_id.clone(),
+            h.street.clone(),
+            h.class.to_string(),
+            h.control.clone(),
+            h.speed_kmh.to_string(),
+            h.lanes.to_string(),
+            h.children.to_string(),
+            format!("{:.4}", h.risk),
+            format!("{:.4}", h.product),
+            h.wait_s.map(|x| round2(x).to_string()).unwrap_or_default(),
+            h.los.map(|l| l.as_str().to_string()).unwrap_or_default(),
+        ]);
     }
-    super::csv_safe::csv_text(w)
+    csv_text(w)
 }
