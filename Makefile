@@ -12,7 +12,7 @@ OSM_EXTRACT := $(CACHE)/osm/test.osm.pbf
 BIN := $(or $(CARGO_TARGET_DIR),target)/release/catchwalk
 
 .PHONY: run test setup setup-rust setup-py setup-osm build cli-demo test-rust test-reference \
-	lint bench fmt clean-cache
+	lint bench fmt clean-cache setup-fuzz fuzz
 
 # The page's build, serve and browser-test targets live with the page.
 -include www/web.mk
@@ -77,6 +77,28 @@ endif
 bench: build
 	$(CARGO) run --release --example bench_tree
 	$(CARGO) run --release --example bench_reaudit
+
+# --- fuzzing (not in `make test`): each target for FUZZ_SECONDS, seeded from the demo town and
+# tests/corpus; new inputs in fuzz/corpus/<target>, crashes in fuzz/artifacts/<target>/ (a
+# fixed crash goes into tests/corpus with its expected outcome).
+FUZZ_SECONDS ?= 60
+FUZZ_TARGETS ?= read_layers build_network audit
+
+setup-fuzz: setup-rust
+	@rustup toolchain list | grep -q '^nightly' || rustup toolchain install nightly --profile minimal
+	@cargo fuzz --version >/dev/null 2>&1 || cargo install cargo-fuzz
+
+fuzz: setup-fuzz
+	$(PYTHON) tools/fuzz_seeds.py
+	@mkdir -p out
+	@for t in $(FUZZ_TARGETS); do \
+	  mkdir -p fuzz/corpus/$$t; \
+	  echo "fuzzing $$t for $(FUZZ_SECONDS) s"; \
+	  cargo +nightly fuzz run $$t fuzz/corpus/$$t fuzz/seeds -- -max_total_time=$(FUZZ_SECONDS) \
+	    -rss_limit_mb=4096 -max_len=65536 -print_final_stats=1 > out/fuzz-$$t.log 2>&1 || \
+	    { tail -40 out/fuzz-$$t.log; echo "fuzz target $$t found a crash: see fuzz/artifacts/$$t/"; exit 1; }; \
+	  grep -E "stat::number_of_executed_units|Done [0-9]+ runs" out/fuzz-$$t.log | tail -2; \
+	done
 
 clean-cache:
 	rm -rf $(CACHE)

@@ -7,6 +7,7 @@
 //! exposes the child identically.
 
 use crate::error::{Error, Result};
+use crate::export::csv_safe::SafeRow;
 use serde::Serialize;
 use std::collections::{BTreeMap, HashMap};
 
@@ -260,10 +261,10 @@ pub fn comparison_csv(c: &Comparison) -> String {
         ]
         .map(String::from),
     );
-    let _ = w.write_record(&header);
+    w.safe_row(&header);
     for k in &c.catchments {
         let (b, a) = (&k.before, &k.after);
-        let _ = w.write_record([
+        w.safe_row([
             k.school_id.clone(),
             b.children.to_string(),
             a.children.to_string(),
@@ -282,5 +283,5 @@ pub fn comparison_csv(c: &Comparison) -> String {
             k.children_lost_safe_route.to_string(),
         ]);
     }
-    crate::export::shareable(w)
+    crate::export::csv_safe::csv_text(w)
 }

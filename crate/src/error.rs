@@ -41,6 +41,10 @@ impl fmt::Display for LayerName {
     }
 }
 
+/// The most characters of an id, a property name or a message shown (longer ones are cut
+/// and their length said).
+pub const MAX_SHOWN: usize = 200;
+
 /// Where in the input a problem sits: layer, feature index (0-based), its id if any, property.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Location {
@@ -59,11 +63,12 @@ impl Location {
             property: None,
         }
     }
+    /// A feature's location; a very long id is clipped (the page shows it as it comes).
     pub fn feature(layer: LayerName, feature: usize, id: Option<String>) -> Self {
         Location {
             layer,
             feature: Some(feature),
-            id,
+            id: id.map(|i| crate::input::text::clip(&i, MAX_SHOWN).into_owned()),
             property: None,
         }
     }
@@ -80,10 +85,10 @@ impl fmt::Display for Location {
             write!(f, " feature {i}")?;
         }
         if let Some(id) = &self.id {
-            write!(f, " (id {id})")?;
+            write!(f, " (id {})", crate::input::text::clip(id, MAX_SHOWN))?;
         }
         if let Some(p) = &self.property {
-            write!(f, ", property '{p}'")?;
+            write!(f, ", property '{}'", crate::input::text::clip(p, MAX_SHOWN))?;
         }
         Ok(())
     }
@@ -108,9 +113,10 @@ pub enum Error {
 
 impl Error {
     pub fn input(at: Location, message: impl Into<String>) -> Self {
+        let message: String = message.into();
         Error::Input {
             at,
-            message: message.into(),
+            message: crate::input::text::clip(&message, 4 * MAX_SHOWN).into_owned(),
         }
     }
 }

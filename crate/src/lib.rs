@@ -19,6 +19,7 @@ pub mod input;
 pub mod network;
 pub mod pipeline;
 pub mod project;
+pub mod range;
 pub mod risk;
 pub mod route;
 pub mod scenario;

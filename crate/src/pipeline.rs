@@ -119,6 +119,7 @@ pub fn run_audit(
     progress: &mut dyn Progress,
 ) -> Result<AuditOutput> {
     let t0 = progress.now_ms();
+    config.validate()?;
     if !progress.report(Stage::Parsing, 0, 1) {
         return Err(Error::Cancelled);
     }
@@ -142,6 +143,22 @@ pub fn run_audit(
         None => audit_layers(layers, config, progress)?,
     };
     out.warnings.splice(0..0, warnings);
+    if let Some(message) = out.network.qa.headline() {
+        out.warnings.push(Warning {
+            at: crate::error::Location::layer(crate::error::LayerName::Streets),
+            message,
+        });
+    }
+    // Homes not reached are said in words on the terminal and the page (score::unreached).
+    let unreached = crate::score::unreached::unreached(&out);
+    if let Some(message) =
+        crate::score::unreached::describe(&unreached, config.network.max_attach_m)
+    {
+        out.warnings.push(Warning {
+            at: crate::error::Location::layer(crate::error::LayerName::Homes),
+            message,
+        });
+    }
     out.timings.parse_ms = t1 - t0;
     out.timings.total_ms = progress.now_ms() - t0;
     Ok(out)
@@ -563,6 +580,7 @@ pub fn check_layers(
     config: &Config,
     progress: &mut dyn Progress,
 ) -> Result<CheckOutput> {
+    config.validate()?;
     if !progress.report(Stage::Parsing, 0, 1) {
         return Err(Error::Cancelled);
     }
@@ -571,6 +589,13 @@ pub fn check_layers(
         return Err(Error::Cancelled);
     }
     let (network, _, _) = prepare_network(&layers, config);
+    let mut warnings = warnings;
+    if let Some(message) = network.qa.headline() {
+        warnings.push(Warning {
+            at: crate::error::Location::layer(crate::error::LayerName::Streets),
+            message,
+        });
+    }
     Ok(CheckOutput {
         layers,
         warnings,

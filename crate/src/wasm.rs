@@ -126,6 +126,22 @@ pub fn default_config() -> String {
     serde_json::to_string(&Config::default()).unwrap_or_default()
 }
 
+/// The allowed range of every numeric config field, as JSON `[{field, min, min_exclusive,
+/// max}]`: the page's settings fields check against the core's own ranges.
+#[wasm_bindgen(js_name = configBounds)]
+pub fn config_bounds() -> String {
+    serde_json::to_string(&Config::bounds()).unwrap_or_default()
+}
+
+/// The core's check of a whole config: empty when it is valid, else the message.
+#[wasm_bindgen(js_name = checkConfig)]
+pub fn check_config(config_json: &str) -> String {
+    match Config::from_json(config_json) {
+        Ok(_) => String::new(),
+        Err(e) => e.to_string(),
+    }
+}
+
 /// A rule set shipped with the core, by name (`default`, ...), as JSON; empty when unknown.
 #[wasm_bindgen(js_name = ruleSet)]
 pub fn rule_set(name: &str) -> String {
@@ -219,6 +235,8 @@ struct AuditDoc<'a> {
     /// What a re-audit did (absent for a full audit).
     #[serde(skip_serializing_if = "Option::is_none")]
     reaudit: Option<Value>,
+    /// CSV on the Web metadata of each CSV (columns, units, caution), by metadata file name.
+    csv_metadata: serde_json::Map<String, Value>,
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
@@ -266,6 +284,7 @@ fn audit_doc(out: &AuditOutput, extra: Option<Value>) -> Result<String, JsValue>
         }),
         warnings: &out.warnings,
         reaudit: extra,
+        csv_metadata: export::csvw::audit_metadata().into_iter().collect(),
     };
     serde_json::to_string(&doc).map_err(to_js)
 }

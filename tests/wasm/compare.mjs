@@ -3,6 +3,7 @@
 
 import { strict as assert } from 'node:assert';
 import { execFileSync } from 'node:child_process';
+import { createRequire } from 'node:module';
 import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
@@ -13,24 +14,12 @@ export const demo = join(root, 'sample-maps', 'demo-town');
 const cli = process.env.CATCHWALK_CLI ?? join(root, 'target', 'release', 'catchwalk');
 
 
+const require = createRequire(join(root, 'www', 'package.json'));
+const Papa = require('papaparse');
+
+/** Rows of cells, read by papaparse (RFC 4180); blank lines skipped. */
 export function parseCsv(text) {
-  const rows = [];
-  for (const line of text.split(/\r?\n/)) {
-    if (line === '' || line.startsWith('#')) continue; // '#': the caution line of shareable tables
-    // The core writes no quoted cells in homes.csv except ids; split with quotes respected.
-    const cells = [];
-    let cell = '', q = false;
-    for (let i = 0; i < line.length; i++) {
-      const c = line[i];
-      if (q) { if (c === '"' && line[i + 1] === '"') { cell += '"'; i++; } else if (c === '"') q = false; else cell += c; }
-      else if (c === '"') q = true;
-      else if (c === ',') { cells.push(cell); cell = ''; }
-      else cell += c;
-    }
-    cells.push(cell);
-    rows.push(cells);
-  }
-  return rows;
+  return Papa.parse(text, { skipEmptyLines: true }).data;
 }
 
 /**

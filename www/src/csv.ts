@@ -1,53 +1,24 @@
-// Small CSV helpers: read the core's homes.csv, write tables.
+// CSV through papaparse (RFC 4180): read the core's tables, write the page's own.
 
-/** Parses RFC 4180 CSV into rows of cells. */
+import Papa from 'papaparse';
+
+/** Parses RFC 4180 CSV into rows of cells (blank lines skipped). */
 export function parseCsv(text: string): string[][] {
-  const rows: string[][] = [];
-  let row: string[] = [];
-  let cell = '';
-  let quoted = false;
-  for (let i = 0; i < text.length; i++) {
-    const ch = text[i];
-    if (quoted) {
-      if (ch === '"') {
-        if (text[i + 1] === '"') {
-          cell += '"';
-          i++;
-        } else quoted = false;
-      } else cell += ch;
-    } else if (ch === '"') quoted = true;
-    else if (ch === ',') {
-      row.push(cell);
-      cell = '';
-    } else if (ch === '\n' || ch === '\r') {
-      if (ch === '\r' && text[i + 1] === '\n') i++;
-      row.push(cell);
-      rows.push(row);
-      row = [];
-      cell = '';
-    } else cell += ch;
-  }
-  if (cell !== '' || row.length) {
-    row.push(cell);
-    rows.push(row);
-  }
-  return rows;
+  return Papa.parse<string[]>(text, { skipEmptyLines: true }).data;
 }
 
-/** Rows as objects keyed by the header; a leading `#` line (the caution of the core's
- * shareable tables) is not part of the table. */
+/** Rows as objects keyed by the header (the header is the first row: the core writes no
+ * line before it). */
 export function csvObjects(text: string): Record<string, string>[] {
-  const [header, ...rows] = parseCsv(text.replace(/^#[^\n]*\n/, ''));
-  if (!header) return [];
-  return rows.map((r) => Object.fromEntries(header.map((h, i) => [h, r[i] ?? ''])));
+  return Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
 }
 
-function cell(v: unknown): string {
-  const s = v === null || v === undefined ? '' : String(v);
-  return /[",\n\r]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
-}
+/** Text cells a spreadsheet would read as a formula: the core's rule (export/csv_safe.rs):
+ * a lead of = + - @ tab or CR, unless the cell is a plain number such as -3.5. */
+export const FORMULA_CELL = /^(?![+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$)[=+\-@\t\r]/;
 
-/** Writes a table as CSV text. */
+/** Writes a table as CSV text, formula-like text cells neutralised with a leading `'`. */
 export function toCsv(header: string[], rows: unknown[][]): string {
-  return [header, ...rows].map((r) => r.map(cell).join(',')).join('\n') + '\n';
+  const cells = rows.map((r) => r.map((v) => (v === null || v === undefined ? '' : typeof v === 'number' ? v : String(v))));
+  return Papa.unparse({ fields: header, data: cells }, { escapeFormulae: FORMULA_CELL, newline: '\r\n' }) + '\r\n';
 }

@@ -67,6 +67,7 @@ export class Engine {
   defaultConfig = '{}';
   caution = '';
   ruleSets: Record<string, string> = {};
+  configBounds = '[]';
 
   /** Starts (or restarts) the worker; resolves once the core is loaded in it. */
   start(): Promise<void> {
@@ -82,6 +83,7 @@ export class Engine {
             this.defaultConfig = m.defaultConfig;
             this.caution = m.caution;
             this.ruleSets = m.ruleSets;
+            this.configBounds = m.configBounds ?? '[]';
             w.onmessage = (e2: MessageEvent<FromWorker>) => this.receive(e2.data);
             resolve();
           }

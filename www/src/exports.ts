@@ -37,7 +37,7 @@ export function routesExport(view: View, catchmentFile: FeatureCollection | null
 export function catchmentsCsv(view: View): string {
   const header = ['school_id', ...COLUMNS.map((c) => String(c.key)), 'homes', 'children_in_walk_zone', 'children_with_safe_route'];
   const rows = view.catchments.map((c) => [c.schoolId, ...COLUMNS.map((k) => c[k.key]), c.homes, c.inZone, c.safe]);
-  return `# ${view.doc.summary.caution}\n` + toCsv(header, rows);
+  return toCsv(header, rows); // the caution: the report and the core's CSV metadata
 }
 
 export function saveRoutes(view: View, file: FeatureCollection | null, individual: boolean) {

@@ -567,7 +567,7 @@ renderLegend();
 if ($('map').clientWidth < 900) $('legend').classList.add('folded');
 setState('starting');
 engine.start().then(() => {
-  settings.init(engine.defaultConfig, engine.ruleSets);
+  settings.init(engine.defaultConfig, engine.ruleSets, engine.configBounds);
   setState('idle');
   if (typeof CATCHWALK_AUTODEMO !== 'undefined' && CATCHWALK_AUTODEMO) loadDemo();
 }).catch((e) => {

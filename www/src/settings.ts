@@ -5,6 +5,18 @@ import { el } from './dom';
 
 type Obj = Record<string, unknown>;
 
+/** The allowed range of a setting, as the core's `configBounds()` gives it. */
+interface Bound { field: string; min: number; min_exclusive: boolean; max: number }
+
+/** The core's wording for an out-of-range value (config.rs / range.rs), or '' when allowed. */
+export function outOfRange(b: Bound | undefined, v: number): string {
+  if (!b) return '';
+  const ok = (b.min_exclusive ? v > b.min : v >= b.min) && v <= b.max;
+  if (ok) return '';
+  const range = b.min_exclusive ? `greater than ${b.min} and at most ${b.max}` : `from ${b.min} to ${b.max}`;
+  return `${b.field} is ${v}; allowed: ${range}`;
+}
+
 const LABELS: Record<string, [string, string]> = {
   'benefit.walk_zone_m': ['Walk zone', 'm of network distance'],
   'benefit.walking_speed_mps': ['Walking speed (walking time, active minutes)', 'm/s (1.22 = 4.0 ft/s)'],
@@ -38,24 +50,31 @@ export class Settings {
   private cfg: Obj = {};
   private defaults = '{}';
   private ruleSets: Record<string, string> = {};
+  private bounds = new Map<string, Bound>();
 
   constructor(private form: HTMLFormElement, private onChange: () => void) {
     form.addEventListener('submit', (e) => e.preventDefault());
   }
 
-  init(defaultJson: string, ruleSets: Record<string, string> = {}) {
+  init(defaultJson: string, ruleSets: Record<string, string> = {}, boundsJson = '[]') {
     this.defaults = defaultJson;
     this.ruleSets = ruleSets;
+    try { this.bounds = new Map((JSON.parse(boundsJson) as Bound[]).map((b) => [b.field, b])); } catch { /* keep */ }
     try { this.cfg = JSON.parse(defaultJson) as Obj; } catch { this.cfg = {}; }
     this.render();
   }
 
   private number(path: (string | number)[], label: string, unit: string, id: string): HTMLElement {
     const v = get(this.cfg, path) as number;
+    const bound = this.bounds.get(path.join('.'));
     const input = el('input', { type: 'number', step: 'any', value: String(v), id });
+    if (bound) { input.min = String(bound.min); input.max = String(bound.max); }
     input.addEventListener('change', () => {
       const n = Number(input.value);
-      if (input.value === '' || !isFinite(n)) { input.value = String(get(this.cfg, path)); return; }
+      const problem = input.value === '' || !isFinite(n) ? `${path.join('.')} must be a number` : outOfRange(bound, n);
+      input.setCustomValidity(problem);
+      input.title = problem;
+      if (problem) { input.reportValidity(); return; }
       set(this.cfg, path, n);
       this.onChange();
     });
@@ -94,7 +113,7 @@ export class Settings {
       out.push(group);
     }
     const reset = el('button', { type: 'button' }, 'Back to defaults');
-    reset.addEventListener('click', () => { this.init(this.defaults, this.ruleSets); this.onChange(); });
+    reset.addEventListener('click', () => { this.init(this.defaults, this.ruleSets, JSON.stringify([...this.bounds.values()])); this.onChange(); });
     out.push(reset);
     this.form.replaceChildren(...out);
   }

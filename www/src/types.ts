@@ -107,6 +107,8 @@ export interface Home {
 
 export interface AuditDoc {
   summary: Summary;
+  /** CSV on the Web metadata of each CSV the core writes (file name -> document). */
+  csv_metadata?: Record<string, { url: string; 'dc:title': string; tableSchema: { columns: { name: string; 'dc:description': string; 'schema:unitText'?: string }[] } }>;
   homes_csv: string;
   routes: FeatureCollection<RouteProps>;
   qa: FeatureCollection;
@@ -140,7 +142,7 @@ export type ToWorker =
   | { type: 'convert'; id: number; layer: string; name: string; bytes: ArrayBuffer; crs: string };
 
 export type FromWorker =
-  | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string> }
+  | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string>; configBounds?: string }
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
   | { type: 'done'; id: number; doc: string; ms: number }
   | { type: 'failed'; id: number; error: string };

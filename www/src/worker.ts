@@ -17,7 +17,9 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     if (typeof extra['ruleSetNames'] === 'function' && typeof extra['ruleSet'] === 'function') {
       for (const name of (extra['ruleSetNames'] as () => string[])()) ruleSets[name] = (extra['ruleSet'] as (n: string) => string)(name);
     }
-    post({ type: 'ready', defaultConfig: core.defaultConfig(), caution: core.caution(), ruleSets });
+    // The allowed range of every setting, from the core's own check (older cores have none).
+    const bounds = typeof extra['configBounds'] === 'function' ? (extra['configBounds'] as () => string)() : '[]';
+    post({ type: 'ready', defaultConfig: core.defaultConfig(), caution: core.caution(), ruleSets, configBounds: bounds });
     return;
   }
   if (msg.type === 'convert') {

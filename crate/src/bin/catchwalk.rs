@@ -4,8 +4,9 @@
 use catchwalk::config::Config;
 use catchwalk::error::LayerName;
 use catchwalk::export;
+use catchwalk::export::atomic::{check_out_dir, OutputDir};
 use catchwalk::input::per_layer::{self, LayerFile, PerLayer};
-use catchwalk::input::{HomesFormat, Preset, RawLayers};
+use catchwalk::input::{Preset, RawLayers};
 use catchwalk::pipeline::{check_layers, run_audit, AuditOutput, Progress, Stage};
 use catchwalk::score::plan::plan_upgrades;
 use catchwalk::score::rules::RuleSet;
@@ -53,8 +54,8 @@ enum Command {
     Plan {
         #[command(flatten)]
         layers: LayerArgs,
-        /// How many upgrades to choose.
-        #[arg(long, value_name = "N")]
+        /// How many upgrades to choose (a whole number, 0 or more).
+        #[arg(long, value_name = "N", allow_negative_numbers = true, value_parser = parse_budget)]
         budget: usize,
         /// Folder for the outputs (created if missing).
         #[arg(long, value_name = "DIR")]
@@ -140,7 +141,7 @@ struct LayerArgs {
     /// Schools: GeoJSON Points or Polygons.
     #[arg(long, value_name = "FILE", required_unless_present = "project")]
     schools: Option<PathBuf>,
-    /// Homes: GeoJSON Points, or CSV with lon/lat columns (by the .csv extension).
+    /// Homes: GeoJSON Points, or CSV with lon/lat columns (told apart by content).
     #[arg(long, value_name = "FILE", required_unless_present = "project")]
     homes: Option<PathBuf>,
     /// Crossing points: GeoJSON Points with their traffic control.
@@ -189,8 +190,16 @@ struct LayerArgs {
     observations: bool,
 }
 
+/// `--budget`: a whole number of upgrades, with a message that says so.
+fn parse_budget(s: &str) -> Result<usize, String> {
+    s.trim().parse::<usize>().map_err(|_| {
+        format!("--budget {s}: give how many upgrades to choose, a whole number 0 or more (for example --budget 5)")
+    })
+}
+
 fn read(path: &Path) -> Result<String, String> {
-    std::fs::read_to_string(path).map_err(|e| format!("cannot read {}: {e}", path.display()))
+    let bytes = std::fs::read(path).map_err(|e| format!("cannot read {}: {e}", path.display()))?;
+    catchwalk::input::text::decode_utf8(&path.display().to_string(), &bytes)
 }
 
 fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
@@ -285,21 +294,14 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
                 Some(p) => text(p),
                 None => Err(format!("{flag} FILE is required (or give --project FILE)")),
             };
-            let homes_format = match a
-                .homes
-                .as_deref()
-                .and_then(|h| h.extension())
-                .and_then(|e| e.to_str())
-            {
-                Some(e) if e.eq_ignore_ascii_case("csv") => HomesFormat::Csv,
-                _ => HomesFormat::GeoJson,
-            };
+            let homes = required(&a.homes, "--homes")?;
             let raw = RawLayers {
                 streets: required(&a.streets, "--streets")?,
                 crossings: text_opt(&a.crossings)?,
                 schools: required(&a.schools, "--schools")?,
-                homes: required(&a.homes, "--homes")?,
-                homes_format,
+                // GeoJSON or CSV by content, whatever the extension (a CSV named .txt).
+                homes_format: catchwalk::input::homes_csv::sniff_format(&homes),
+                homes,
                 catchments: text_opt(&a.catchments)?,
                 crashes: read_opt(&a.crashes)?,
                 preset: match a.preset {
@@ -377,9 +379,18 @@ impl Progress for Bar {
     }
 }
 
-fn write(dir: &Path, name: &str, text: &str) -> Result<(), String> {
-    let p = dir.join(name);
-    std::fs::write(&p, text).map_err(|e| format!("cannot write {}: {e}", p.display()))
+/// Writes `files` into a new folder and swaps it in for `out` whole (export::atomic).
+fn write_all(out: &Path, files: &[(String, String)]) -> Result<(), String> {
+    let dir = OutputDir::begin(out)?;
+    for (name, text) in files {
+        dir.write(name, text)?;
+    }
+    dir.commit()
+}
+
+/// The CSV on the Web metadata files beside the CSVs (export::csvw).
+fn metadata_files(meta: Vec<(String, serde_json::Value)>) -> Vec<(String, String)> {
+    meta.into_iter().map(|(n, v)| (n, json(&v))).collect()
 }
 
 fn json<T: serde::Serialize>(v: &T) -> String {
@@ -389,43 +400,44 @@ fn json<T: serde::Serialize>(v: &T) -> String {
 fn run(cli: Cli) -> Result<(), String> {
     match cli.command {
         Command::Audit { layers, out } => {
+            check_out_dir(&out)?;
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
-            std::fs::create_dir_all(&out)
-                .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-            write(&out, "summary.json", &json(&export::summary_json(&result)))?;
-            write(&out, "homes.csv", &export::homes_csv(&result))?;
-            write(
-                &out,
-                "routes.geojson",
-                &json(&export::routes_geojson(&result)),
-            )?;
-            write(
-                &out,
-                "qa.geojson",
-                &json(&export::qa_geojson(&result.network.qa)),
-            )?;
-            write(
-                &out,
-                "centrelines.geojson",
-                &json(&export::centrelines_geojson(&result)),
-            )?;
-            write(&out, "catchments.csv", &export::catchments_csv(&result))?;
-            write(&out, "hotspots.csv", &export::hotspots_csv(&result))?;
-            write(
-                &out,
-                "hotspots.geojson",
-                &json(&export::hotspots_geojson(&result)),
-            )?;
+            let mut files = vec![
+                ("summary.json".into(), json(&export::summary_json(&result))),
+                ("homes.csv".into(), export::homes_csv(&result)),
+                (
+                    "routes.geojson".into(),
+                    json(&export::routes_geojson(&result)),
+                ),
+                (
+                    "qa.geojson".into(),
+                    json(&export::qa_geojson(&result.network.qa)),
+                ),
+                (
+                    "centrelines.geojson".into(),
+                    json(&export::centrelines_geojson(&result)),
+                ),
+                ("catchments.csv".into(), export::catchments_csv(&result)),
+                ("hotspots.csv".into(), export::hotspots_csv(&result)),
+                (
+                    "hotspots.geojson".into(),
+                    json(&export::hotspots_geojson(&result)),
+                ),
+            ];
+            files.extend(metadata_files(export::csvw::audit_metadata()));
+            write_all(&out, &files)?;
             print_balance(&result);
             for w in &result.warnings {
                 eprintln!("warning: {w}");
             }
+            let not_reached = result.homes.iter().filter(|h| h.shortest.is_none()).count();
             say!(
-                "audited {} homes for {} schools in {:.0} ms; wrote {}",
+                "audited {} homes ({} reached, {not_reached} not reached) for {} schools in {:.0} ms; wrote {}",
                 result.homes.len(),
+                result.homes.len() - not_reached,
                 result.layers.schools.len(),
                 result.timings.total_ms,
                 out.display()
@@ -438,22 +450,24 @@ fn run(cli: Cli) -> Result<(), String> {
             budget,
             out,
         } => {
+            check_out_dir(&out)?;
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
             let plan = plan_upgrades(&result, &result.scores.homes, budget);
-            std::fs::create_dir_all(&out)
-                .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-            write(&out, "plan.json", &json(&export::plan_json(&result, &plan)))?;
-            write(&out, "plan.csv", &export::plan_csv(&plan))?;
-            write(
-                &out,
-                "interventions.geojson",
-                &json(&catchwalk::scenario::from_plan::plan_interventions(
-                    &result, &plan,
-                )),
-            )?;
+            let mut files = vec![
+                ("plan.json".into(), json(&export::plan_json(&result, &plan))),
+                ("plan.csv".into(), export::plan_csv(&plan)),
+                (
+                    "interventions.geojson".into(),
+                    json(&catchwalk::scenario::from_plan::plan_interventions(
+                        &result, &plan,
+                    )),
+                ),
+            ];
+            files.extend(metadata_files(vec![export::csvw::plan_metadata()]));
+            write_all(&out, &files)?;
             say!("rank upgrade          children_gained  street");
             for s in &plan.steps {
                 say!(
@@ -488,13 +502,16 @@ fn run(cli: Cli) -> Result<(), String> {
             let c = catchwalk::compare::compare_homes(&homes(&before)?, &homes(&after)?)
                 .map_err(|e| e.to_string())?;
             if let Some(out) = out {
-                std::fs::create_dir_all(&out)
-                    .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-                write(&out, "comparison.json", &json(&c))?;
-                write(
+                check_out_dir(&out)?;
+                write_all(
                     &out,
-                    "comparison.csv",
-                    &catchwalk::compare::comparison_csv(&c),
+                    &[
+                        ("comparison.json".into(), json(&c)),
+                        (
+                            "comparison.csv".into(),
+                            catchwalk::compare::comparison_csv(&c),
+                        ),
+                    ],
                 )?;
             }
             print_comparison(&c);
@@ -595,6 +612,9 @@ fn run(cli: Cli) -> Result<(), String> {
             Ok(())
         }
         Command::Check { layers, out } => {
+            if let Some(out) = &out {
+                check_out_dir(out)?;
+            }
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = check_layers(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
@@ -607,12 +627,12 @@ fn run(cli: Cli) -> Result<(), String> {
             s["warnings"] = serde_json::json!(result.warnings.len());
             say!("{}", json(&s));
             if let Some(out) = out {
-                std::fs::create_dir_all(&out)
-                    .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
-                write(
+                write_all(
                     &out,
-                    "qa.geojson",
-                    &json(&export::qa_geojson(&result.network.qa)),
+                    &[(
+                        "qa.geojson".into(),
+                        json(&export::qa_geojson(&result.network.qa)),
+                    )],
                 )?;
             }
             Ok(())

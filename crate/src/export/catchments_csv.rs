@@ -1,6 +1,7 @@
 //! `catchments.csv` (one row per school), the per-home score columns of `homes.csv`, and the
 //! upgrade plan (`plan.json`, `plan.csv`).
 
+use super::csv_safe::{csv_text, SafeRow};
 use super::round2;
 use crate::pipeline::AuditOutput;
 use crate::score::home::HomeScore;
@@ -65,7 +66,7 @@ fn opt(x: Option<f64>, digits: usize) -> String {
 /// The CSV text of `catchments.csv`.
 pub fn catchments_csv(out: &AuditOutput) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    let _ = w.write_record([
+    w.safe_row([
         "school_id",
         "school_name",
         "children",
@@ -91,7 +92,7 @@ pub fn catchments_csv(out: &AuditOutput) -> String {
         let Some(school) = out.layers.schools.get(c.school) else {
             continue;
         };
-        let _ = w.write_record([
+        w.safe_row([
             school.id.clone(),
             school.name.clone(),
             c.children.to_string(),
@@ -114,7 +115,7 @@ pub fn catchments_csv(out: &AuditOutput) -> String {
             out.config.score.rules.name.clone(),
         ]);
     }
-    super::shareable_csv(w)
+    csv_text(w)
 }
 
 /// The per-catchment figures as JSON, for `summary.json`.
@@ -152,7 +153,7 @@ pub fn plan_json(out: &AuditOutput, plan: &Plan) -> Value {
 /// The chosen upgrades as CSV (`plan.csv`).
 pub fn plan_csv(plan: &Plan) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    let _ = w.write_record([
+    w.safe_row([
         "rank",
         "upgrade",
         "edge",
@@ -163,7 +164,7 @@ pub fn plan_csv(plan: &Plan) -> String {
         "safe_children_after",
     ]);
     for s in &plan.steps {
-        let _ = w.write_record([
+        w.safe_row([
             s.rank.to_string(),
             s.upgrade.as_str().to_string(),
             s.edge.to_string(),
@@ -174,5 +175,5 @@ pub fn plan_csv(plan: &Plan) -> String {
             s.safe_children_after.to_string(),
         ]);
     }
-    super::shareable_csv(w)
+    csv_text(w)
 }

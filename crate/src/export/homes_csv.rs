@@ -1,6 +1,7 @@
 //! `homes.csv`: one row per home. Crossing and exposure columns describe the recommended
 //! route; the same set prefixed `shortest_` describes the shortest route.
 
+use super::csv_safe::{csv_text, SafeRow};
 use super::edge_side;
 use super::round2;
 use crate::audit::RouteAudit;
@@ -64,7 +65,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
     header.push("shortest_risk".into());
     header.extend(["attach_segment", "attach_side", "attach_offset_m", "snap_m"].map(String::from));
     header.extend(super::catchments_csv::HOME_SCORE_COLUMNS.map(String::from));
-    let _ = w.write_record(&header);
+    w.safe_row(header);
     let speed = out.config.benefit.walking_speed_mps;
     let g = &out.network.graph;
     for (i, h) in out.homes.iter().enumerate() {
@@ -108,8 +109,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
         row.extend(super::catchments_csv::home_score_values(
             out.scores.homes.get(i),
         ));
-        let _ = w.write_record(&row);
+        w.safe_row(row);
     }
-    let bytes = w.into_inner().unwrap_or_default();
-    String::from_utf8(bytes).unwrap_or_default()
+    csv_text(w)
 }

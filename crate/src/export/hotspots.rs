@@ -1,6 +1,7 @@
 //! `hotspots.geojson` and `hotspots.csv`: crossings and sides ranked by children x risk.
 //! Edges, not homes: safe to share.
 
+use super::csv_safe::{csv_text, SafeRow};
 use super::geometry::step_line;
 use super::round2;
 use crate::pipeline::AuditOutput;
@@ -46,7 +47,7 @@ pub fn hotspots_geojson(out: &AuditOutput) -> Value {
 /// Hotspots as CSV, ranked.
 pub fn hotspots_csv(out: &AuditOutput) -> String {
     let mut w = csv::Writer::from_writer(Vec::new());
-    let _ = w.write_record([
+    w.safe_row([
         "rank",
         "edge",
         "kind",
@@ -66,7 +67,7 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
         "crashes_ksi",
     ]);
     for h in &out.scores.hotspots {
-        let _ = w.write_record([
+        w.safe_row([
             h.rank.to_string(),
             h.edge.to_string(),
             h.kind.to_string(),
@@ -86,5 +87,5 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
             h.crashes_ksi.to_string(),
         ]);
     }
-    super::shareable_csv(w)
+    csv_text(w)
 }

@@ -1,7 +1,11 @@
 //! Exports: tables as CSV, layers as GeoJSON, the summary as JSON. Each is a plain function
 //! of the [`AuditOutput`](crate::pipeline::AuditOutput); writing files is the caller's job.
 
+#[cfg(not(target_arch = "wasm32"))]
+pub mod atomic;
 pub mod catchments_csv;
+pub mod csv_safe;
+pub mod csvw;
 pub mod geometry;
 pub mod homes_csv;
 pub mod hotspots;
@@ -32,16 +36,4 @@ pub(crate) fn edge_side(kind: &crate::network::PedEdgeKind) -> &'static str {
         PedEdgeKind::Path { .. } => "path",
         PedEdgeKind::Crossing { .. } => "crossing",
     }
-}
-
-/// A shareable CSV table: the caution as a `#` comment line first (a spreadsheet shows it as
-/// the first row; `pandas.read_csv(comment="#")` skips it), then the table.
-pub(crate) fn shareable_csv(w: csv::Writer<Vec<u8>>) -> String {
-    let table = String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default();
-    format!("# {}\n{table}", crate::CAUTION)
-}
-
-/// [`shareable_csv`] for other modules' tables (the caution line, then the table).
-pub fn shareable(w: csv::Writer<Vec<u8>>) -> String {
-    shareable_csv(w)
 }

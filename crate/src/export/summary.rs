@@ -26,9 +26,11 @@ pub fn summary_json(out: &AuditOutput) -> Value {
                 .enumerate()
                 .filter(|(_, h)| h.assignment.school == Some(s))
                 .collect();
-            let children: u32 = members
+            // u64: a sum of u32 counts cannot overflow it (three homes of 4294967295
+            // children wrapped a u32 total).
+            let children: u64 = members
                 .iter()
-                .map(|(i, _)| out.layers.homes[*i].children)
+                .map(|(i, _)| u64::from(out.layers.homes[*i].children))
                 .sum();
             let routed: Vec<(f64, f64, f64, f64)> = members
                 .iter()
@@ -79,8 +81,9 @@ pub fn summary_json(out: &AuditOutput) -> Value {
     let mut doc = network_summary(&out.layers, g, qa);
     let extra = json!({
         "warnings": out.warnings.len(),
+        "unreached": crate::score::unreached::unreached(out),
         "homes": out.layers.homes.len(),
-        "children": out.layers.homes.iter().map(|h| h.children).sum::<u32>(),
+        "children": out.layers.homes.iter().map(|h| u64::from(h.children)).sum::<u64>(),
         "walk_zone_m": walk_zone,
         "schools": schools,
         "catchments": super::catchments_csv::catchments_json(out),

@@ -201,6 +201,14 @@ pub fn check_lonlat(x: f64, y: f64, at: &dyn Fn() -> Location) -> Result<LonLat>
             "a coordinate is not a finite number (NaN or infinite); fix or remove the feature",
         ));
     }
+    // Projected systems stay within about 10^8 (metres or feet); beyond it the geometry is
+    // broken, and calling it "projected" would send the planner the wrong way.
+    if x.abs() > 1e9 || y.abs() > 1e9 {
+        return Err(Error::input(
+            at(),
+            format!("coordinates ({x:e}, {y:e}) are outside any coordinate system, longitude/latitude or projected; the geometry is broken: fix or remove the feature"),
+        ));
+    }
     if x.abs() > 180.0 || y.abs() > 90.0 {
         return Err(Error::Projected { at: at(), x, y });
     }
@@ -355,6 +363,11 @@ mod tests {
             Err(Error::Input { .. })
         ));
         assert_eq!(check_lonlat(-180.0, 90.0, &at).ok(), Some([-180.0, 90.0]));
+        let e = check_lonlat(1e308, 42.0, &at).unwrap_err().to_string();
+        assert!(
+            e.contains("outside any coordinate system") && !e.contains("look projected"),
+            "{e}"
+        );
     }
 
     #[test]

@@ -52,6 +52,26 @@ fn lonlat_columns(header: &[String], fields: &LayerFields) -> Result<(usize, usi
 }
 
 /// Reads homes from CSV text (`,` or, when the header has no comma, `;` between fields).
+/// Whether homes text is GeoJSON or CSV, from its content (a CSV named `.txt`, a GeoJSON
+/// named `.json`): GeoJSON starts with `{`.
+///
+/// ```
+/// use catchwalk::input::{homes_csv::sniff_format, HomesFormat};
+/// assert_eq!(sniff_format("\u{feff} {\"type\":\"FeatureCollection\"}"), HomesFormat::GeoJson);
+/// assert_eq!(sniff_format("id,lon,lat\n"), HomesFormat::Csv);
+/// ```
+pub fn sniff_format(text: &str) -> super::HomesFormat {
+    match text
+        .trim_start_matches('\u{feff}')
+        .trim_start()
+        .chars()
+        .next()
+    {
+        Some('{') | Some('[') => super::HomesFormat::GeoJson,
+        _ => super::HomesFormat::Csv,
+    }
+}
+
 /// Row `i` after the header is feature `i`. Other columns go through the homes fields
 /// (`id`, `children`, `school`).
 ///
@@ -75,6 +95,12 @@ pub fn read_homes_csv_in(
     w: &mut Warnings,
 ) -> Result<Vec<Home>> {
     let text = text.trim_start_matches('\u{feff}');
+    if text.trim().is_empty() {
+        return Err(Error::input(
+            Location::layer(LayerName::Homes),
+            "the homes CSV is empty (no header, no rows); export the homes again: a header row with lon and lat columns, then one row per home",
+        ));
+    }
     let first = text.lines().next().unwrap_or("");
     let delimiter = if !first.contains(',') && first.contains(';') {
         b';'
@@ -120,6 +146,7 @@ pub fn read_homes_csv_in(
             index,
             id,
         };
+        let line = record.position().map_or(index as u64 + 2, |p| p.line());
         let number = |i: usize| -> Result<f64> {
             let name = header.get(i).map_or("", |s| s.as_str());
             let cell = record.get(i).unwrap_or("").trim();
@@ -127,8 +154,7 @@ pub fn read_homes_csv_in(
                 Error::input(
                     ctx.at_prop(name),
                     format!(
-                        "row {} has '{cell}' where a coordinate belongs; give decimal degrees",
-                        index + 2
+                        "'{cell}' where a coordinate belongs (feature {index} is row {index} after the header, line {line} of the file); give decimal degrees"
                     ),
                 )
             })

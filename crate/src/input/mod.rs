@@ -10,11 +10,13 @@ pub mod model;
 pub mod observed;
 pub mod pbf;
 pub mod per_layer;
+pub mod plausible;
 pub mod prepare;
 pub mod presets;
 mod read;
 pub mod shapefile;
 pub mod speed;
+pub mod text;
 pub mod validate;
 pub mod values;
 pub mod warnings;
@@ -121,6 +123,18 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
             None => preset,
         }
     };
+    for (layer, text) in [
+        (crate::error::LayerName::Streets, &raw.streets),
+        (crate::error::LayerName::Schools, &raw.schools),
+        (crate::error::LayerName::Homes, &raw.homes),
+    ] {
+        if text.trim_start_matches('\u{feff}').trim().is_empty() {
+            return Err(crate::error::Error::input(
+                crate::error::Location::layer(layer),
+                "the file is empty (0 bytes or only blank space); load the layer's file with its features",
+            ));
+        }
+    }
     let reader = |p: Preset, f| match p {
         Preset::Osm => Reader::Osm,
         Preset::Plain => Reader::Plain(f),
@@ -179,6 +193,7 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
         layers.catchments = read::catchments(&p.text, &fields("catchments", fields::CATCHMENTS))?;
     }
     validate::validate(&mut layers, &mut w)?;
+    plausible::check(&mut layers, &mut w);
     Ok((layers, w.finish()))
 }
 

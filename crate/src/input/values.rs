@@ -35,6 +35,10 @@ pub fn default_speed_kmh(class: RoadClass) -> f64 {
     }
 }
 
+/// The most through lanes a street may have; more is refused as a lane count (and over
+/// [`super::plausible::IMPLAUSIBLE_LANES`] is warned).
+pub const MAX_LANES: u32 = 32;
+
 /// catchwalk's default through lanes (both directions) per class when the layer gives none.
 pub fn default_lanes(class: RoadClass) -> u32 {
     match class {

@@ -35,9 +35,10 @@ impl Warnings {
             }
         };
         if n <= LISTED_PER_KIND {
+            let message: String = message.into();
             self.list.push(Warning {
                 at,
-                message: message.into(),
+                message: super::text::clip(&message, 4 * crate::error::MAX_SHOWN).into_owned(),
             });
         }
     }

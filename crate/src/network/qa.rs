@@ -44,4 +44,32 @@ impl Qa {
     pub fn count(&self, kind: QaKind) -> usize {
         self.items.iter().filter(|i| i.kind == kind).count()
     }
+
+    /// One line with the QA counts a planner must see on the terminal and the page, not only
+    /// in `summary.json` (crossing points skipped because no street is near, near-misses, tiny
+    /// components; dangling ends are left to qa.geojson, as every cul-de-sac has one); `None`
+    /// when there are none.
+    pub fn headline(&self) -> Option<String> {
+        let parts: Vec<String> = [
+            (
+                QaKind::UnattachedCrossing,
+                "crossing point(s) skipped: no street near enough to attach",
+            ),
+            (
+                QaKind::NearMiss,
+                "near-miss(es) between street ends that did not join",
+            ),
+            (
+                QaKind::TinyComponent,
+                "tiny separate piece(s) of the network",
+            ),
+        ]
+        .iter()
+        .filter_map(|(k, what)| {
+            let n = self.count(*k);
+            (n > 0).then(|| format!("{n} {what}"))
+        })
+        .collect();
+        (!parts.is_empty()).then(|| format!("network QA: {}; see qa.geojson", parts.join(", ")))
+    }
 }

@@ -53,6 +53,23 @@ impl Default for ControlFactors {
 }
 
 impl ControlFactors {
+    /// Range checks: factors multiply risk, so none may be negative.
+    pub fn validate(&self, at: &str, c: &mut crate::range::Checks) {
+        for (name, v) in [
+            ("none", self.none),
+            ("marked", self.marked),
+            ("beacon", self.beacon),
+            ("stop", self.stop),
+            ("all_way_stop", self.all_way_stop),
+            ("signal", self.signal),
+            ("refuge_island", self.refuge_island),
+            ("raised", self.raised),
+            ("guard", self.guard),
+        ] {
+            c.at_least(at, name, v, 0.0, 10.0);
+        }
+    }
+
     pub fn device(&self, d: Device) -> f64 {
         let f = match d {
             Device::None => self.none,

@@ -45,6 +45,41 @@ pub struct RiskConfig {
     pub shoulder_factor: f64,
 }
 
+impl RiskConfig {
+    /// Range checks of the risk model's settings.
+    pub fn validate(&self, at: &str, c: &mut crate::range::Checks) {
+        self.volume.validate(&format!("{at}.volume"), c);
+        self.controls.validate(&format!("{at}.controls"), c);
+        for (i, w) in self.school_windows.iter().enumerate() {
+            if w.start_min > w.end_min || w.end_min > 24 * 60 {
+                c.problem(format!(
+                    "{at}.school_windows[{i}] runs from minute {} to {}; allowed: a start before its end, within the day (0 to 1440)",
+                    w.start_min, w.end_min
+                ));
+            }
+        }
+        c.above(at, "walk_mps", self.walk_mps, 0.0, 5.0);
+        c.at_least(at, "start_up_s", self.start_up_s, 0.0, 60.0);
+        c.above(at, "lane_width_m", self.lane_width_m, 0.0, 10.0);
+        c.above(
+            at,
+            "reference_speed_kmh",
+            self.reference_speed_kmh,
+            0.0,
+            200.0,
+        );
+        c.at_least(
+            at,
+            "reference_lanes",
+            self.reference_lanes as f64,
+            1.0,
+            20.0,
+        );
+        c.at_least(at, "shoulder_min_m", self.shoulder_min_m, 0.0, 20.0);
+        c.at_least(at, "shoulder_factor", self.shoulder_factor, 0.0, 10.0);
+    }
+}
+
 impl Default for RiskConfig {
     fn default() -> Self {
         RiskConfig {

@@ -70,6 +70,24 @@ pub struct VolumeConfig {
     pub oneway_share: f64,
 }
 
+impl VolumeConfig {
+    /// Range checks: volumes are vehicles per day, factors are shares.
+    pub fn validate(&self, at: &str, c: &mut crate::range::Checks) {
+        let d = &self.default_aadt;
+        for (name, v) in [
+            ("arterial", d.arterial),
+            ("collector", d.collector),
+            ("local", d.local),
+            ("service", d.service),
+        ] {
+            c.at_least(&format!("{at}.default_aadt"), name, v, 0.0, 1e6);
+        }
+        c.above(at, "design_hour_factor", self.design_hour_factor, 0.0, 1.0);
+        c.above(at, "peak_hour_factor", self.peak_hour_factor, 0.0, 1.0);
+        c.at_least(at, "oneway_share", self.oneway_share, 0.0, 1.0);
+    }
+}
+
 impl Default for VolumeConfig {
     fn default() -> Self {
         VolumeConfig {

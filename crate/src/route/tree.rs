@@ -128,10 +128,12 @@ impl Tree {
                 }
             }
             for (edge, next) in graph.neighbours(corner) {
-                let w = edge_cost[edge as usize];
-                if !w.is_finite() {
-                    continue;
-                }
+                // Non-finite (or NaN) is impassable; a negative cost counts as zero, so a
+                // bad cost can never make the search loop round a negative cycle.
+                let w = match edge_cost.get(edge as usize) {
+                    Some(&w) if w.is_finite() => w.max(0.0),
+                    _ => continue,
+                };
                 let nc = cost + w;
                 let ni = next as usize;
                 if nc < self.cost[ni] {
@@ -216,5 +218,32 @@ impl Reached {
         self.0
             .get(corner as usize / 64)
             .is_some_and(|w| w & (1 << (corner % 64)) != 0)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn negative_and_nan_costs_cannot_make_the_search_loop() {
+        // A negative edge in an undirected graph is a negative cycle (a-b-a): a plain
+        // Dijkstra would relax it forever. Here it counts as zero and NaN is impassable.
+        let g = PedGraph::toy_path(&[10.0, 5.0, 7.0]);
+        let mut t = Tree::for_graph(&g);
+        let src = [Source {
+            corner: 0,
+            cost: 0.0,
+            origin: 0,
+        }];
+        t.grow(&g, &[10.0, -250.0, 7.0], &src, &[]);
+        assert_eq!(t.cost[2], 10.0);
+        assert_eq!(t.cost[3], 17.0);
+        t.grow(&g, &[10.0, f64::NAN, 7.0], &src, &[]);
+        assert_eq!(t.cost[1], 10.0);
+        assert!(t.cost[2].is_infinite());
+        // A cost table shorter than the edge list leaves the missing edges impassable.
+        t.grow(&g, &[10.0], &src, &[]);
+        assert!(t.cost[2].is_infinite());
     }
 }

@@ -22,6 +22,16 @@ pub struct ScoreConfig {
     pub observed_join_m: f64,
 }
 
+impl ScoreConfig {
+    /// Range checks of the scoring settings.
+    pub fn validate(&self, at: &str, c: &mut crate::range::Checks) {
+        c.at_least(at, "walkable_share", self.walkable_share, 0.0, 1.0);
+        c.at_least(at, "safe_share", self.safe_share, 0.0, 1.0);
+        c.at_least(at, "observed_join_m", self.observed_join_m, 0.0, 200.0);
+        self.plan.validate(&format!("{at}.plan"), c);
+    }
+}
+
 impl Default for ScoreConfig {
     fn default() -> Self {
         ScoreConfig {
@@ -39,6 +49,7 @@ pub mod home;
 pub mod hotspots;
 pub mod observed;
 pub mod plan;
+pub mod unreached;
 
 use crate::config::Config;
 use crate::input::Layers;

@@ -29,6 +29,14 @@ pub struct PlanConfig {
     pub max_candidates: usize,
 }
 
+impl PlanConfig {
+    /// Range checks of the planner's settings.
+    pub fn validate(&self, at: &str, c: &mut crate::range::Checks) {
+        c.above(at, "speed_target_kmh", self.speed_target_kmh, 0.0, 200.0);
+        c.at_least(at, "max_candidates", self.max_candidates as f64, 1.0, 1e6);
+    }
+}
+
 impl Default for PlanConfig {
     fn default() -> Self {
         PlanConfig {

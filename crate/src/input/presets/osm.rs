@@ -187,13 +187,14 @@ pub fn street(ctx: &Ctx, props: &Props, w: &mut Warnings) -> Option<Street> {
         None if by_direction > 0 => by_direction,
         None => class_lanes,
         Some(v) => match v.split(';').filter_map(parse_int).max() {
-            Some(n) if (1..=32).contains(&n) => n as u32,
+            Some(n) if (1..=i64::from(crate::input::values::MAX_LANES)).contains(&n) => n as u32,
             _ => {
                 w.push(
                     "lanes",
                     ctx.at_prop("lanes"),
                     format!(
-                        "cannot read lanes '{v}'; used the {} default",
+                        "cannot read lanes '{v}' (a whole number from 1 to {}); used the {} default",
+                        crate::input::values::MAX_LANES,
                         class.as_str()
                     ),
                 );

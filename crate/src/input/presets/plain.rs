@@ -112,7 +112,7 @@ pub fn street(ctx: &Ctx, props: &Props, f: &LayerFields, w: &mut Warnings) -> St
     };
     let lanes = match f.text("lanes", props) {
         Some(g) => match parse_int(&g.text) {
-            Some(n) if (1..=32).contains(&n) => n as u32,
+            Some(n) if (1..=i64::from(MAX_LANES)).contains(&n) => n as u32,
             Some(0) if class.is_foot_only() => 0,
             _ => {
                 let d = default_lanes(class);
@@ -120,8 +120,8 @@ pub fn street(ctx: &Ctx, props: &Props, f: &LayerFields, w: &mut Warnings) -> St
                     "lanes",
                     ctx.at_prop(&g.property),
                     format!(
-                        "'{}' is not a lane count (a whole number, at least 1 on a road); used \
-                         the {} default {d}",
+                        "'{}' is not a lane count (a whole number from 1 to {MAX_LANES} on a \
+                         road); used the {} default {d}",
                         g.text,
                         class.as_str()
                     ),
