@@ -13,6 +13,7 @@ pub mod benefit;
 pub mod config;
 pub mod error;
 pub mod export;
+pub mod facts;
 pub mod geodesy;
 pub mod input;
 pub mod network;

@@ -4,6 +4,7 @@
 use crate::audit::{audit_route, RouteAudit};
 use crate::config::Config;
 use crate::error::{Error, Result, Warning};
+use crate::facts::EdgeTable;
 use crate::input::{read_layers, Layers, RawLayers, Street, Students};
 use crate::network::qa::{QaItem, QaKind};
 use crate::network::{build_network, Attachment, Network, PedEdge, PedGraph};
@@ -87,6 +88,7 @@ pub struct Timings {
     pub parse_ms: f64,
     pub network_ms: f64,
     pub routing_ms: f64,
+    pub scoring_ms: f64,
     pub total_ms: f64,
 }
 
@@ -300,16 +302,10 @@ pub fn audit_layers(
     let (mut network, school_att, home_att) = prepare_network(&layers, config);
     let t1 = progress.now_ms();
 
-    let walk_cost = edge_costs(&network.graph, &layers.streets, config, RouteKind::Shortest);
-    let rec_cost = edge_costs(
-        &network.graph,
-        &layers.streets,
-        config,
-        RouteKind::Recommended,
-    );
+    let facts = EdgeTable::build(&network.graph, &layers.streets, config);
     let assignments = assign_schools(
         &network.graph,
-        &walk_cost,
+        &facts.walk_cost,
         &layers.homes,
         &home_att,
         &layers.schools,
@@ -329,50 +325,45 @@ pub fn audit_layers(
         })
         .collect();
 
-    let g = &network.graph;
-    let mut tree = Tree::for_graph(g);
-    let mut safe_cost_by_students: HashMap<Students, Vec<f64>> = HashMap::new();
     let n_schools = layers.schools.len();
-    for (s, entrances) in school_att.iter().enumerate() {
-        if !progress.report(Stage::Routing, s, n_schools) {
-            return Err(Error::Cancelled);
-        }
-        let members: Vec<usize> = (0..homes.len())
-            .filter(|&i| homes[i].assignment.school == Some(s) && homes[i].attachment.is_some())
-            .collect();
-        if members.is_empty() || entrances.is_empty() {
-            continue;
-        }
-        let students = layers.schools[s].students;
-        let safe_cost = safe_cost_by_students
-            .entry(students)
-            .or_insert_with(|| safe_costs(g, &layers.streets, config, students));
-        for (kind, cost) in [
-            (RouteKind::Shortest, &walk_cost),
-            (RouteKind::Recommended, &rec_cost),
-            (RouteKind::Safe, &*safe_cost),
-        ] {
-            let routes = route_members(
-                g,
-                &layers.streets,
-                config,
-                kind,
-                cost,
-                entrances,
-                &members,
-                &home_att,
-                &mut tree,
-            );
-            for (&i, r) in members.iter().zip(routes) {
-                match kind {
-                    RouteKind::Shortest => homes[i].shortest = r,
-                    RouteKind::Recommended => homes[i].recommended = r,
-                    RouteKind::Safe => homes[i].safe = r,
-                }
+    let mut members: Vec<Vec<usize>> = vec![Vec::new(); n_schools];
+    for (i, h) in homes.iter().enumerate() {
+        if let (Some(s), Some(_)) = (h.assignment.school, h.attachment) {
+            if let Some(m) = members.get_mut(s) {
+                m.push(i);
             }
         }
-        for &i in &members {
-            apply_detour_cap(&mut homes[i], config.route.detour_cap);
+    }
+    let ctx = SchoolRouting {
+        g: &network.graph,
+        streets: &layers.streets,
+        facts: &facts,
+        schools: &layers.schools,
+        home_att: &home_att,
+    };
+    let jobs: Vec<(usize, &[Attachment], Vec<usize>)> = school_att
+        .iter()
+        .zip(members)
+        .enumerate()
+        .filter(|(_, (ent, m))| !m.is_empty() && !ent.is_empty())
+        .map(|(s, (ent, m))| (s, ent.as_slice(), m))
+        .collect();
+    // Schools in batches: progress and cancellation between batches, the batch in parallel
+    // natively (each school's routes depend on that school alone, so the result is the same
+    // in any order and on any number of threads).
+    for batch in jobs.chunks(ROUTING_BATCH) {
+        let done = batch.first().map_or(n_schools, |j| j.0);
+        if !progress.report(Stage::Routing, done, n_schools) {
+            return Err(Error::Cancelled);
+        }
+        for (job, routed) in batch.iter().zip(ctx.route_batch(batch)) {
+            for (&i, (sh, (rec, safe))) in job.2.iter().zip(routed) {
+                let h = &mut homes[i];
+                h.shortest = sh;
+                h.recommended = rec;
+                h.safe = safe;
+                apply_detour_cap(h, config.route.detour_cap);
+            }
         }
     }
     progress.report(Stage::Routing, n_schools, n_schools);
@@ -401,6 +392,7 @@ pub fn audit_layers(
     if !progress.report(Stage::Scoring, 0, 1) {
         return Err(Error::Cancelled);
     }
+    let t_scoring = progress.now_ms();
     let scores = crate::score::score_audit(&layers, &network.graph, &homes, config);
     progress.report(Stage::Scoring, 1, 1);
     let t2 = progress.now_ms();
@@ -415,10 +407,129 @@ pub fn audit_layers(
         timings: Timings {
             parse_ms: 0.0,
             network_ms: t1 - t0,
-            routing_ms: t2 - t1,
+            routing_ms: t_scoring - t1,
+            scoring_ms: t2 - t_scoring,
             total_ms: t2 - t0,
         },
     })
+}
+
+/// Schools routed between two progress reports.
+const ROUTING_BATCH: usize = 8;
+
+/// The per-home routes of one school: (shortest, (recommended, safe)), indexed like its members.
+type SchoolRoutes = Vec<(
+    Option<AuditedRoute>,
+    (Option<AuditedRoute>, Option<AuditedRoute>),
+)>;
+
+/// What routing one school reads: the graph, the facts table and the home attachments.
+struct SchoolRouting<'a> {
+    g: &'a PedGraph,
+    streets: &'a [Street],
+    facts: &'a EdgeTable,
+    schools: &'a [crate::input::School],
+    home_att: &'a [Option<Attachment>],
+}
+
+impl SchoolRouting<'_> {
+    /// The three route kinds of one school's members, in one reused tree.
+    fn route_school(
+        &self,
+        entrances: &[Attachment],
+        members: &[usize],
+        students: Students,
+        tree: &mut Tree,
+    ) -> SchoolRoutes {
+        let mut by_kind =
+            [RouteKind::Shortest, RouteKind::Recommended, RouteKind::Safe].map(|kind| {
+                let cost = self.facts.costs(kind, students);
+                route_members_with(self, kind, cost, entrances, members, tree)
+            });
+        let [sh, rec, safe] = &mut by_kind;
+        std::mem::take(sh)
+            .into_iter()
+            .zip(std::mem::take(rec).into_iter().zip(std::mem::take(safe)))
+            .collect()
+    }
+
+    /// Routes a batch of schools: in parallel natively, in turn in wasm.
+    fn route_batch(&self, batch: &[(usize, &[Attachment], Vec<usize>)]) -> Vec<SchoolRoutes> {
+        let one = |tree: &mut Tree, (s, ent, m): &(usize, &[Attachment], Vec<usize>)| {
+            let students = self.schools.get(*s).map(|x| x.students).unwrap_or_default();
+            self.route_school(ent, m, students, tree)
+        };
+        #[cfg(not(target_arch = "wasm32"))]
+        {
+            use rayon::prelude::*;
+            batch
+                .par_iter()
+                .map_init(|| Tree::for_graph(self.g), one)
+                .collect()
+        }
+        #[cfg(target_arch = "wasm32")]
+        {
+            let mut tree = Tree::for_graph(self.g);
+            batch.iter().map(|j| one(&mut tree, j)).collect()
+        }
+    }
+}
+
+/// Routes members to one school with the facts table's risk (see [`route_members`]).
+fn route_members_with(
+    ctx: &SchoolRouting,
+    kind: RouteKind,
+    cost: &[f64],
+    entrances: &[Attachment],
+    members: &[usize],
+    tree: &mut Tree,
+) -> Vec<Option<AuditedRoute>> {
+    let g = ctx.g;
+    let mut targets = Vec::with_capacity(members.len() * 2);
+    for att in members
+        .iter()
+        .filter_map(|&i| ctx.home_att.get(i).copied().flatten())
+    {
+        if let Some(e) = g.edges.get(att.edge as usize) {
+            targets.push(e.a);
+            targets.push(e.b);
+        }
+    }
+    if entrances.is_empty() || targets.is_empty() {
+        return vec![None; members.len()];
+    }
+    tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
+    let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
+    members
+        .iter()
+        .map(|&i| {
+            let att = ctx.home_att.get(i).copied().flatten()?;
+            shared
+                .entry((att.edge, att.offset_m.to_bits()))
+                .or_insert_with(|| {
+                    route_to_school(g, tree, cost, &att, entrances).map(|r| AuditedRoute {
+                        kind,
+                        audit: audit_route(g, ctx.streets, &r),
+                        risk: route_risk_from(g, &ctx.facts.risk_points, &r),
+                        route: r,
+                    })
+                })
+                .clone()
+        })
+        .collect()
+}
+
+/// Risk points of one trip along a route from per-edge risk points (partial edges pro rata).
+pub fn route_risk_from(g: &PedGraph, risk_points: &[f64], route: &Route) -> f64 {
+    route
+        .steps
+        .iter()
+        .filter_map(|s| {
+            let e = g.edges.get(s.edge as usize)?;
+            let share = if e.is_crossing() { 1.0 } else { s.share() };
+            Some(share * risk_points.get(s.edge as usize).copied().unwrap_or(0.0))
+        })
+        .sum()
 }
 
 /// Risk points of one trip along a route (partial edges pro rata).

@@ -39,7 +39,8 @@ impl Lcg {
 
 /// A block's deterministic hash (which blocks get a cul-de-sac or a foot path).
 fn block_hash(x: usize, y: usize) -> u64 {
-    let mut h = (x as u64).wrapping_mul(0x9E37_79B9_7F4A_7C15) ^ (y as u64).wrapping_mul(0xC2B2_AE3D_27D4_EB4F);
+    let mut h = (x as u64).wrapping_mul(0x9E37_79B9_7F4A_7C15)
+        ^ (y as u64).wrapping_mul(0xC2B2_AE3D_27D4_EB4F);
     h ^= h >> 29;
     h.wrapping_mul(0xBF58_476D_1CE4_E5B9) >> 32
 }
@@ -71,8 +72,15 @@ pub fn city(segments: usize, homes: usize, schools: usize) -> City {
             nodes.len() - 1
         })
     };
-    let mut add = |class: &str, speed: u32, lanes: u32, sidewalk: &str, a: [f64; 2], b: [f64; 2],
-                   streets: &mut Vec<Value>, nodes: &mut Vec<[f64; 2]>, edges: &mut String| {
+    let mut add = |class: &str,
+                   speed: u32,
+                   lanes: u32,
+                   sidewalk: &str,
+                   a: [f64; 2],
+                   b: [f64; 2],
+                   streets: &mut Vec<Value>,
+                   nodes: &mut Vec<[f64; 2]>,
+                   edges: &mut String| {
         let id = streets.len();
         streets.push(json!({"type": "Feature", "geometry": {"type": "LineString", "coordinates": [a, b]},
             "properties": {"id": format!("ST{id}"), "class": class, "speed_kmh": speed, "lanes": lanes,
@@ -103,8 +111,17 @@ pub fn city(segments: usize, homes: usize, schools: usize) -> City {
                     1 => "left",
                     _ => "both",
                 };
-                add(class, speed, lanes, sidewalk, at(x as f64, y as f64),
-                    at((x + dx) as f64, (y + dy) as f64), &mut streets, &mut nodes, &mut edges);
+                add(
+                    class,
+                    speed,
+                    lanes,
+                    sidewalk,
+                    at(x as f64, y as f64),
+                    at((x + dx) as f64, (y + dy) as f64),
+                    &mut streets,
+                    &mut nodes,
+                    &mut edges,
+                );
             }
             let arterial_here = ring(x, y) || x == centre || y == centre;
             let both = (ring(x, y) && (x == centre || y == centre)) || (x == centre && y == centre);
@@ -127,26 +144,53 @@ pub fn city(segments: usize, homes: usize, schools: usize) -> City {
             if x + 1 < side && y + 1 < side {
                 let h = block_hash(x, y);
                 if h % 11 == 3 {
-                    add("local", 30, 2, "both", at(x as f64, y as f64), at(x as f64 + 0.45, y as f64 + 0.4),
-                        &mut streets, &mut nodes, &mut edges);
+                    add(
+                        "local",
+                        30,
+                        2,
+                        "both",
+                        at(x as f64, y as f64),
+                        at(x as f64 + 0.45, y as f64 + 0.4),
+                        &mut streets,
+                        &mut nodes,
+                        &mut edges,
+                    );
                 } else if h % 13 == 5 {
-                    add("path", 0, 0, "unknown", at(x as f64, y as f64), at((x + 1) as f64, (y + 1) as f64),
-                        &mut streets, &mut nodes, &mut edges);
+                    add(
+                        "path",
+                        0,
+                        0,
+                        "unknown",
+                        at(x as f64, y as f64),
+                        at((x + 1) as f64, (y + 1) as f64),
+                        &mut streets,
+                        &mut nodes,
+                        &mut edges,
+                    );
                 }
             }
         }
     }
-    let n_schools = if schools == 0 { (homes / 250).max(2) } else { schools };
+    let n_schools = if schools == 0 {
+        (homes / 250).max(2)
+    } else {
+        schools
+    };
     let mut rnd = Lcg(20_261_202);
     let span = (side - 1) as f64;
     let mut school_feats = Vec::new();
     let mut sources = String::from("school,node\n");
     for s in 0..n_schools {
-        let (x, y) = ((rnd.next() * (span - 1.0)).floor(), (rnd.next() * (span - 1.0)).floor());
+        let (x, y) = (
+            (rnd.next() * (span - 1.0)).floor(),
+            (rnd.next() * (span - 1.0)).floor(),
+        );
         let entrance = at(x + 0.3, y + 0.02);
-        school_feats.push(json!({"type": "Feature", "geometry": {"type": "Point", "coordinates": entrance},
+        school_feats.push(
+            json!({"type": "Feature", "geometry": {"type": "Point", "coordinates": entrance},
             "properties": {"id": format!("S{s}"), "name": format!("School {s}"),
-                "students": if s % 5 == 4 { "secondary" } else { "elementary" }}}));
+                "students": if s % 5 == 4 { "secondary" } else { "elementary" }}}),
+        );
         let junction = node(at(x, y), &mut nodes);
         let _ = writeln!(sources, "S{s},{junction}");
     }
@@ -160,7 +204,8 @@ pub fn city(segments: usize, homes: usize, schools: usize) -> City {
     for (i, p) in nodes.iter().enumerate() {
         let _ = writeln!(nodes_csv, "{i},{:.7},{:.7}", p[0], p[1]);
     }
-    let collection = |f: Vec<Value>| json!({"type": "FeatureCollection", "features": f}).to_string();
+    let collection =
+        |f: Vec<Value>| json!({"type": "FeatureCollection", "features": f}).to_string();
     City {
         segments: streets.len(),
         homes,
