@@ -38,10 +38,14 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// Route every home to its school and write the audit (summary.json, homes.csv,
-    /// routes.geojson, qa.geojson, centrelines.geojson) to --out.
+    /// flows.geojson, qa.geojson, centrelines.geojson, catchments and hotspots) to --out.
     Audit {
         #[command(flatten)]
         layers: LayerArgs,
+        /// Also write routes.geojson: every home's routes as lines (personal data: one line
+        /// per home; large). By default only flows.geojson, children per side and crossing.
+        #[arg(long)]
+        route_lines: bool,
         /// Folder for the outputs (created if missing).
         #[arg(long, value_name = "DIR")]
         out: PathBuf,
@@ -197,13 +201,32 @@ fn write(dir: &Path, name: &str, text: &str) -> Result<(), String> {
     std::fs::write(&p, text).map_err(|e| format!("cannot write {}: {e}", p.display()))
 }
 
+/// Writes a large output straight to its file through a buffer, without the whole text in
+/// memory first.
+fn write_stream(
+    dir: &Path,
+    name: &str,
+    body: impl FnOnce(&mut dyn std::io::Write) -> std::io::Result<()>,
+) -> Result<(), String> {
+    use std::io::Write;
+    let p = dir.join(name);
+    let fail = |e: std::io::Error| format!("cannot write {}: {e}", p.display());
+    let mut w = std::io::BufWriter::new(std::fs::File::create(&p).map_err(fail)?);
+    body(&mut w).map_err(fail)?;
+    w.flush().map_err(fail)
+}
+
 fn json<T: serde::Serialize>(v: &T) -> String {
     serde_json::to_string_pretty(v).unwrap_or_default()
 }
 
 fn run(cli: Cli) -> Result<(), String> {
     match cli.command {
-        Command::Audit { layers, out } => {
+        Command::Audit {
+            layers,
+            route_lines,
+            out,
+        } => {
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
@@ -212,21 +235,24 @@ fn run(cli: Cli) -> Result<(), String> {
                 .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
             write(&out, "summary.json", &json(&export::summary_json(&result)))?;
             write(&out, "homes.csv", &export::homes_csv(&result))?;
-            write(
-                &out,
-                "routes.geojson",
-                &json(&export::routes_geojson(&result)),
-            )?;
+            write_stream(&out, "flows.geojson", |w| {
+                export::flows::write_flows_geojson(&result, w)
+            })?;
+            if route_lines {
+                write_stream(&out, "routes.geojson", |w| {
+                    serde_json::to_writer_pretty(w, &export::routes_geojson(&result))
+                        .map_err(std::io::Error::from)
+                })?;
+            }
             write(
                 &out,
                 "qa.geojson",
                 &json(&export::qa_geojson(&result.network.qa)),
             )?;
-            write(
-                &out,
-                "centrelines.geojson",
-                &json(&export::centrelines_geojson(&result)),
-            )?;
+            write_stream(&out, "centrelines.geojson", |w| {
+                serde_json::to_writer_pretty(w, &export::centrelines_geojson(&result))
+                    .map_err(std::io::Error::from)
+            })?;
             write(&out, "catchments.csv", &export::catchments_csv(&result))?;
             write(&out, "hotspots.csv", &export::hotspots_csv(&result))?;
             write(

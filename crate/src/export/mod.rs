@@ -2,6 +2,7 @@
 //! of the [`AuditOutput`](crate::pipeline::AuditOutput); writing files is the caller's job.
 
 pub mod catchments_csv;
+pub mod flows;
 pub mod geometry;
 pub mod homes_csv;
 pub mod hotspots;
