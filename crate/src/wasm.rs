@@ -157,7 +157,7 @@ struct AuditDoc<'a> {
     routes: export::layers_geojson::Collection<export::layers_geojson::RouteProps<'a>>,
     qa: Value,
     centrelines: export::layers_geojson::Collection<export::layers_geojson::SegmentProps<'a>>,
-    hotspots: Value,
+    hotspots: export::hotspots::HotspotCollection<'a>,
     layers: Value,
     warnings: &'a [crate::error::Warning],
 }
@@ -194,4 +194,18 @@ pub fn audit(
         warnings: &out.warnings,
     };
     serde_json::to_string(&doc).map_err(to_js)
+}
+
+/// Runs the audit and returns only its stage timings and counts as JSON (`make bench` times
+/// the wasm core against the native one on the same layers without building the page's
+/// documents).
+#[wasm_bindgen]
+pub fn audit_timings(layers_json: &str, config_json: &str) -> Result<String, JsValue> {
+    let noop = js_sys::Function::new_no_args("return true");
+    let out = run(layers_json, config_json, &noop)?;
+    let routed = out.homes.iter().filter(|h| h.shortest.is_some()).count();
+    Ok(
+        json!({ "timings_ms": out.timings, "homes": out.homes.len(), "routed": routed })
+            .to_string(),
+    )
 }

@@ -255,11 +255,10 @@ fn run(cli: Cli) -> Result<(), String> {
             })?;
             write(&out, "catchments.csv", &export::catchments_csv(&result))?;
             write(&out, "hotspots.csv", &export::hotspots_csv(&result))?;
-            write(
-                &out,
-                "hotspots.geojson",
-                &json(&export::hotspots_geojson(&result)),
-            )?;
+            write_stream(&out, "hotspots.geojson", |w| {
+                serde_json::to_writer_pretty(w, &export::hotspots_geojson(&result))
+                    .map_err(std::io::Error::from)
+            })?;
             print_balance(&result);
             for w in &result.warnings {
                 eprintln!("warning: {w}");
