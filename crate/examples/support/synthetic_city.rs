@@ -17,6 +17,7 @@ const STEP: f64 = 0.0011;
 const ORIGIN: [f64; 2] = [-36.0, 43.0];
 
 /// The city as files (name, contents) and its size.
+#[allow(dead_code)] // the sizes are read by make_city, not by the tests that share this file
 pub struct City {
     pub files: Vec<(&'static str, String)>,
     pub segments: usize,
@@ -58,7 +59,7 @@ pub fn city(segments: usize, homes: usize, schools: usize) -> City {
     let centre = side / 2;
     let ring = |x: usize, y: usize| {
         let d = x.abs_diff(centre).max(y.abs_diff(centre));
-        d > 0 && d % 12 == 0
+        d > 0 && d.is_multiple_of(12)
     };
     let mut streets = Vec::new();
     let mut crossings = Vec::new();
@@ -125,13 +126,11 @@ pub fn city(segments: usize, homes: usize, schools: usize) -> City {
             }
             let arterial_here = ring(x, y) || x == centre || y == centre;
             let both = (ring(x, y) && (x == centre || y == centre)) || (x == centre && y == centre);
-            let control = if both {
-                Some("signal")
-            } else if arterial_here && (x % 6 == 3 || y % 6 == 3) {
+            let control = if both || (arterial_here && (x % 6 == 3 || y % 6 == 3)) {
                 Some("signal")
             } else if x % 6 == 3 && y % 6 == 3 {
                 Some("all_way_stop")
-            } else if arterial_here && block_hash(x, y) % 4 == 0 {
+            } else if arterial_here && block_hash(x, y).is_multiple_of(4) {
                 Some("marked")
             } else {
                 None
