@@ -74,8 +74,19 @@ else
 test: lint test-rust test-reference
 endif
 
+# The side-by-side benchmark (tools/bench/bench.py): the synthetic city at 1 k to 200 k
+# segments (BENCH_SCALES to change), natively, in wasm (Node) and with igraph and networkx;
+# writes out/bench/bench.md.
+BENCH_WASM := $(or $(CARGO_TARGET_DIR),target)/wasm32-unknown-unknown/release-wasm/catchwalk.wasm
 bench: build
-	$(CARGO) run --release --example bench_tree
+	@$(PYTHON) -c "import igraph, networkx" 2>/dev/null || \
+		$(PYTHON) -m pip install -q --disable-pip-version-check -r tools/bench/requirements.txt
+	$(CARGO) build --release --example make_city --example bench_stages
+	@rustup target list --installed 2>/dev/null | grep -qx wasm32-unknown-unknown || rustup target add wasm32-unknown-unknown
+	$(CARGO) build --lib --target wasm32-unknown-unknown --profile release-wasm -p catchwalk
+	@command -v wasm-bindgen >/dev/null || $(MAKE) web-setup
+	wasm-bindgen --target web --out-dir out/bench/wasm --out-name catchwalk $(BENCH_WASM)
+	$(PYTHON) tools/bench/bench.py
 	$(CARGO) run --release --example bench_reaudit
 
 # --- fuzzing (not in `make test`): each target for FUZZ_SECONDS, seeded from the demo town and

@@ -14,6 +14,7 @@ pub mod compare;
 pub mod config;
 pub mod error;
 pub mod export;
+pub mod facts;
 pub mod geodesy;
 pub mod input;
 pub mod network;

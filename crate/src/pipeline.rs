@@ -4,6 +4,7 @@
 use crate::audit::{audit_route, RouteAudit};
 use crate::config::Config;
 use crate::error::{Error, Result, Warning};
+use crate::facts::EdgeTable;
 use crate::input::{read_layers, Layers, RawLayers, Street, Students};
 use crate::network::qa::{QaItem, QaKind};
 use crate::network::{build_network, Attachment, Network, PedEdge, PedGraph};
@@ -87,6 +88,7 @@ pub struct Timings {
     pub parse_ms: f64,
     pub network_ms: f64,
     pub routing_ms: f64,
+    pub scoring_ms: f64,
     pub total_ms: f64,
 }
 
@@ -340,16 +342,10 @@ pub fn audit_layers(
     let (mut network, school_att, home_att) = prepare_network(&layers, config);
     let t1 = progress.now_ms();
 
-    let walk_cost = edge_costs(&network.graph, &layers.streets, config, RouteKind::Shortest);
-    let rec_cost = edge_costs(
-        &network.graph,
-        &layers.streets,
-        config,
-        RouteKind::Recommended,
-    );
+    let facts = EdgeTable::build(&network.graph, &layers.streets, config);
     let assignments = assign_schools(
         &network.graph,
-        &walk_cost,
+        &facts.walk_cost,
         &layers.homes,
         &home_att,
         &layers.schools,
@@ -369,40 +365,57 @@ pub fn audit_layers(
         })
         .collect();
 
-    let g = &network.graph;
-    let mut tree = Tree::for_graph(g);
-    let mut safe_cost_by_students: HashMap<Students, Vec<f64>> = HashMap::new();
     let n_schools = layers.schools.len();
     let mut tree_reach = vec![<[Reached; 3]>::default(); n_schools];
-    for (s, entrances) in school_att.iter().enumerate() {
-        if !progress.report(Stage::Routing, s, n_schools) {
+    let mut members: Vec<Vec<usize>> = vec![Vec::new(); n_schools];
+    for (i, h) in homes.iter().enumerate() {
+        if let (Some(s), Some(_)) = (h.assignment.school, h.attachment) {
+            if let Some(m) = members.get_mut(s) {
+                m.push(i);
+            }
+        }
+    }
+    let ctx = SchoolRouting {
+        g: &network.graph,
+        streets: &layers.streets,
+        facts: &facts,
+        schools: &layers.schools,
+        home_att: &home_att,
+    };
+    let jobs: Vec<(usize, &[Attachment], Vec<usize>)> = school_att
+        .iter()
+        .zip(members)
+        .enumerate()
+        .filter(|(_, (ent, m))| !m.is_empty() && !ent.is_empty())
+        .map(|(s, (ent, m))| (s, ent.as_slice(), m))
+        .collect();
+    // Schools in batches: progress and cancellation between batches, the batch in parallel
+    // natively (each school's routes depend on that school alone, so the result is the same
+    // in any order and on any number of threads).
+    for batch in jobs.chunks(ROUTING_BATCH) {
+        let done = batch.first().map_or(n_schools, |j| j.0);
+        if !progress.report(Stage::Routing, done, n_schools) {
             return Err(Error::Cancelled);
         }
-        let members = school_members(&homes, s);
-        if members.is_empty() || entrances.is_empty() {
-            continue;
+        for (job, (routed, reach)) in batch.iter().zip(ctx.route_batch(batch)) {
+            if let Some(r) = tree_reach.get_mut(job.0) {
+                *r = reach;
+            }
+            for (&i, (sh, (rec, safe))) in job.2.iter().zip(routed) {
+                let h = &mut homes[i];
+                h.shortest = sh;
+                h.recommended = rec;
+                h.safe = safe;
+                apply_detour_cap(h, config.route.detour_cap);
+            }
         }
-        let students = layers.schools[s].students;
-        let safe_cost = safe_cost_by_students
-            .entry(students)
-            .or_insert_with(|| safe_costs(g, &layers.streets, config, students));
-        let costs: [&[f64]; 3] = [&walk_cost, &rec_cost, safe_cost];
-        tree_reach[s] = route_school(
-            g,
-            &layers.streets,
-            config,
-            costs,
-            entrances,
-            &members,
-            &mut homes,
-            &mut tree,
-        );
     }
     progress.report(Stage::Routing, n_schools, n_schools);
     unreachable_qa(&layers, &homes, &mut network.qa);
     if !progress.report(Stage::Scoring, 0, 1) {
         return Err(Error::Cancelled);
     }
+    let t_scoring = progress.now_ms();
     let scores = crate::score::score_audit(&layers, &network.graph, &homes, config);
     progress.report(Stage::Scoring, 1, 1);
     let t2 = progress.now_ms();
@@ -419,7 +432,8 @@ pub fn audit_layers(
         timings: Timings {
             parse_ms: 0.0,
             network_ms: t1 - t0,
-            routing_ms: t2 - t1,
+            routing_ms: t_scoring - t1,
+            scoring_ms: t2 - t_scoring,
             total_ms: t2 - t0,
         },
     })
@@ -497,6 +511,131 @@ pub fn unreachable_qa(layers: &Layers, homes: &[HomeResult], qa: &mut crate::net
             message: why,
         });
     }
+}
+
+/// Schools routed between two progress reports.
+const ROUTING_BATCH: usize = 8;
+
+/// The per-home routes of one school: (shortest, (recommended, safe)), indexed like its members.
+type SchoolRoutes = Vec<(
+    Option<AuditedRoute>,
+    (Option<AuditedRoute>, Option<AuditedRoute>),
+)>;
+
+/// What routing one school reads: the graph, the facts table and the home attachments.
+struct SchoolRouting<'a> {
+    g: &'a PedGraph,
+    streets: &'a [Street],
+    facts: &'a EdgeTable,
+    schools: &'a [crate::input::School],
+    home_att: &'a [Option<Attachment>],
+}
+
+impl SchoolRouting<'_> {
+    /// The three route kinds of one school's members, in one reused tree, with the corners
+    /// each tree reached (what a re-audit reads to tell which schools a change touches).
+    fn route_school(
+        &self,
+        entrances: &[Attachment],
+        members: &[usize],
+        students: Students,
+        tree: &mut Tree,
+    ) -> (SchoolRoutes, [Reached; 3]) {
+        let mut reach = <[Reached; 3]>::default();
+        let mut by_kind: [Vec<Option<AuditedRoute>>; 3] = Default::default();
+        for (k, kind) in [RouteKind::Shortest, RouteKind::Recommended, RouteKind::Safe]
+            .into_iter()
+            .enumerate()
+        {
+            let cost = self.facts.costs(kind, students);
+            by_kind[k] = route_members_with(self, kind, cost, entrances, members, tree);
+            reach[k] = tree.reached();
+        }
+        let [sh, rec, safe] = by_kind;
+        let routes = sh.into_iter().zip(rec.into_iter().zip(safe)).collect();
+        (routes, reach)
+    }
+
+    /// Routes a batch of schools: in parallel natively, in turn in wasm.
+    fn route_batch(
+        &self,
+        batch: &[(usize, &[Attachment], Vec<usize>)],
+    ) -> Vec<(SchoolRoutes, [Reached; 3])> {
+        let one = |tree: &mut Tree, (s, ent, m): &(usize, &[Attachment], Vec<usize>)| {
+            let students = self.schools.get(*s).map(|x| x.students).unwrap_or_default();
+            self.route_school(ent, m, students, tree)
+        };
+        #[cfg(not(target_arch = "wasm32"))]
+        {
+            use rayon::prelude::*;
+            batch
+                .par_iter()
+                .map_init(|| Tree::for_graph(self.g), one)
+                .collect()
+        }
+        #[cfg(target_arch = "wasm32")]
+        {
+            let mut tree = Tree::for_graph(self.g);
+            batch.iter().map(|j| one(&mut tree, j)).collect()
+        }
+    }
+}
+
+/// Routes members to one school with the facts table's risk (see [`route_members`]).
+fn route_members_with(
+    ctx: &SchoolRouting,
+    kind: RouteKind,
+    cost: &[f64],
+    entrances: &[Attachment],
+    members: &[usize],
+    tree: &mut Tree,
+) -> Vec<Option<AuditedRoute>> {
+    let g = ctx.g;
+    let mut targets = Vec::with_capacity(members.len() * 2);
+    for att in members
+        .iter()
+        .filter_map(|&i| ctx.home_att.get(i).copied().flatten())
+    {
+        if let Some(e) = g.edges.get(att.edge as usize) {
+            targets.push(e.a);
+            targets.push(e.b);
+        }
+    }
+    if entrances.is_empty() || targets.is_empty() {
+        return vec![None; members.len()];
+    }
+    tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
+    let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
+    members
+        .iter()
+        .map(|&i| {
+            let att = ctx.home_att.get(i).copied().flatten()?;
+            shared
+                .entry((att.edge, att.offset_m.to_bits()))
+                .or_insert_with(|| {
+                    route_to_school(g, tree, cost, &att, entrances).map(|r| AuditedRoute {
+                        kind,
+                        audit: audit_route(g, ctx.streets, &r),
+                        risk: route_risk_from(g, &ctx.facts.risk_points, &r),
+                        route: r,
+                    })
+                })
+                .clone()
+        })
+        .collect()
+}
+
+/// Risk points of one trip along a route from per-edge risk points (partial edges pro rata).
+pub fn route_risk_from(g: &PedGraph, risk_points: &[f64], route: &Route) -> f64 {
+    route
+        .steps
+        .iter()
+        .filter_map(|s| {
+            let e = g.edges.get(s.edge as usize)?;
+            let share = if e.is_crossing() { 1.0 } else { s.share() };
+            Some(share * risk_points.get(s.edge as usize).copied().unwrap_or(0.0))
+        })
+        .sum()
 }
 
 /// Risk points of one trip along a route (partial edges pro rata).

@@ -229,7 +229,7 @@ struct AuditDoc<'a> {
     routes: export::layers_geojson::Collection<export::layers_geojson::RouteProps<'a>>,
     qa: Value,
     centrelines: export::layers_geojson::Collection<export::layers_geojson::SegmentProps<'a>>,
-    hotspots: Value,
+    hotspots: export::hotspots::HotspotCollection<'a>,
     layers: Value,
     warnings: &'a [crate::error::Warning],
     /// What a re-audit did (absent for a full audit).
@@ -355,4 +355,18 @@ pub fn project_interventions(
     let name = (!scenario.is_empty()).then_some(scenario);
     let text = p.interventions(name, observations).map_err(error_to_js)?;
     Ok(text.unwrap_or_default())
+}
+
+/// Runs the audit and returns only its stage timings and counts as JSON (`make bench` times
+/// the wasm core against the native one on the same layers without building the page's
+/// documents).
+#[wasm_bindgen]
+pub fn audit_timings(layers_json: &str, config_json: &str) -> Result<String, JsValue> {
+    let noop = js_sys::Function::new_no_args("return true");
+    let out = run(layers_json, config_json, &noop)?;
+    let routed = out.homes.iter().filter(|h| h.shortest.is_some()).count();
+    Ok(
+        json!({ "timings_ms": out.timings, "homes": out.homes.len(), "routed": routed })
+            .to_string(),
+    )
 }

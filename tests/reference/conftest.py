@@ -25,7 +25,7 @@ def catchwalk_bin() -> pathlib.Path:
 
 def run_audit(out_dir: pathlib.Path, **layers) -> dict:
     """Runs `catchwalk audit` and returns its outputs as Python data."""
-    args = [str(catchwalk_bin()), "audit", "--out", str(out_dir)]
+    args = [str(catchwalk_bin()), "audit", "--route-lines", "--out", str(out_dir)]
     for name, value in layers.items():
         if value is not None:
             args += [f"--{name}", str(value)]

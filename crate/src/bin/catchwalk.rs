@@ -41,10 +41,14 @@ struct Cli {
 #[derive(Subcommand)]
 enum Command {
     /// Route every home to its school and write the audit (summary.json, homes.csv,
-    /// routes.geojson, qa.geojson, centrelines.geojson) to --out.
+    /// flows.geojson, qa.geojson, centrelines.geojson, catchments and hotspots) to --out.
     Audit {
         #[command(flatten)]
         layers: LayerArgs,
+        /// Also write routes.geojson: every home's routes as lines (personal data: one line
+        /// per home; large). By default only flows.geojson, children per side and crossing.
+        #[arg(long)]
+        route_lines: bool,
         /// Folder for the outputs (created if missing).
         #[arg(long, value_name = "DIR")]
         out: PathBuf,
@@ -399,36 +403,43 @@ fn json<T: serde::Serialize>(v: &T) -> String {
 
 fn run(cli: Cli) -> Result<(), String> {
     match cli.command {
-        Command::Audit { layers, out } => {
+        Command::Audit {
+            layers,
+            route_lines,
+            out,
+        } => {
             check_out_dir(&out)?;
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
-            let mut files = vec![
-                ("summary.json".into(), json(&export::summary_json(&result))),
-                ("homes.csv".into(), export::homes_csv(&result)),
-                (
-                    "routes.geojson".into(),
-                    json(&export::routes_geojson(&result)),
-                ),
-                (
-                    "qa.geojson".into(),
-                    json(&export::qa_geojson(&result.network.qa)),
-                ),
-                (
-                    "centrelines.geojson".into(),
-                    json(&export::centrelines_geojson(&result)),
-                ),
-                ("catchments.csv".into(), export::catchments_csv(&result)),
-                ("hotspots.csv".into(), export::hotspots_csv(&result)),
-                (
-                    "hotspots.geojson".into(),
-                    json(&export::hotspots_geojson(&result)),
-                ),
-            ];
-            files.extend(metadata_files(export::csvw::audit_metadata()));
-            write_all(&out, &files)?;
+            let dir = OutputDir::begin(&out)?;
+            dir.write("summary.json", &json(&export::summary_json(&result)))?;
+            dir.write("homes.csv", &export::homes_csv(&result))?;
+            dir.write_with("flows.geojson", |w| {
+                export::flows::write_flows_geojson(&result, w)
+            })?;
+            if route_lines {
+                dir.write_with("routes.geojson", |w| {
+                    serde_json::to_writer_pretty(w, &export::routes_geojson(&result))
+                        .map_err(std::io::Error::from)
+                })?;
+            }
+            dir.write("qa.geojson", &json(&export::qa_geojson(&result.network.qa)))?;
+            dir.write_with("centrelines.geojson", |w| {
+                serde_json::to_writer_pretty(w, &export::centrelines_geojson(&result))
+                    .map_err(std::io::Error::from)
+            })?;
+            dir.write("catchments.csv", &export::catchments_csv(&result))?;
+            dir.write("hotspots.csv", &export::hotspots_csv(&result))?;
+            dir.write_with("hotspots.geojson", |w| {
+                serde_json::to_writer_pretty(w, &export::hotspots_geojson(&result))
+                    .map_err(std::io::Error::from)
+            })?;
+            for (name, text) in metadata_files(export::csvw::audit_metadata()) {
+                dir.write(&name, &text)?;
+            }
+            dir.commit()?;
             print_balance(&result);
             for w in &result.warnings {
                 eprintln!("warning: {w}");

@@ -101,17 +101,29 @@ impl OutputDir {
     /// Writes one file into the new folder. The file is created new (`create_new`), so a
     /// planted link cannot be followed.
     pub fn write(&self, name: &str, text: &str) -> Result<(), String> {
+        self.write_with(name, |w| w.write_all(text.as_bytes()))
+    }
+
+    /// Writes one file into the new folder through a buffer as `body` produces it (a large
+    /// layer never sits whole in memory). Created new, as [`OutputDir::write`].
+    pub fn write_with(
+        &self,
+        name: &str,
+        body: impl FnOnce(&mut dyn Write) -> std::io::Result<()>,
+    ) -> Result<(), String> {
         if name.contains('/') || name.contains('\\') || name.starts_with('.') {
             return Err(format!("refusing output file name {name:?}"));
         }
         let p = self.staging.join(name);
-        let mut f = fs::OpenOptions::new()
+        let f = fs::OpenOptions::new()
             .write(true)
             .create_new(true)
             .open(&p)
             .map_err(|e| io_err("create", &p, e))?;
-        f.write_all(text.as_bytes())
-            .and_then(|_| f.sync_all())
+        let mut w = std::io::BufWriter::new(f);
+        body(&mut w)
+            .and_then(|_| w.flush())
+            .and_then(|_| w.get_ref().sync_all())
             .map_err(|e| io_err("write", &p, e))
     }
 

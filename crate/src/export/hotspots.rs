@@ -6,12 +6,60 @@ use super::geometry::step_line;
 use super::round2;
 use crate::pipeline::AuditOutput;
 use crate::route::RouteStep;
-use serde_json::{json, Value};
+use serde::Serialize;
+
+/// One hotspot's properties, keys in the order the former `json!` map wrote them
+/// (alphabetical), so the file is unchanged byte for byte.
+#[derive(Debug, Serialize)]
+pub struct HotspotProps<'a> {
+    children: f64,
+    class: &'static str,
+    control: &'a str,
+    crashes: u32,
+    crashes_ksi: u32,
+    crashes_pedestrian: u32,
+    edge: u32,
+    kind: &'static str,
+    lanes: u32,
+    los: Option<&'static str>,
+    product: f64,
+    rank: usize,
+    risk: f64,
+    speed_kmh: f64,
+    street: &'a str,
+    street_id: &'a str,
+    wait_s: Option<f64>,
+}
+
+#[derive(Debug, Serialize)]
+pub struct HotspotFeature<'a> {
+    geometry: HotspotLine,
+    properties: HotspotProps<'a>,
+    #[serde(rename = "type")]
+    kind: &'static str,
+}
+
+#[derive(Debug, Serialize)]
+pub struct HotspotLine {
+    coordinates: Vec<crate::input::LonLat>,
+    #[serde(rename = "type")]
+    kind: &'static str,
+}
+
+/// The hotspots layer: typed features serialised straight to text (a district has hundreds
+/// of thousands; a `Value` per coordinate took seconds).
+#[derive(Debug, Serialize)]
+pub struct HotspotCollection<'a> {
+    caution: &'static str,
+    features: Vec<HotspotFeature<'a>>,
+    #[serde(rename = "type")]
+    kind: &'static str,
+}
 
 /// Hotspots as LineStrings (the crossing or the side) with their figures.
-pub fn hotspots_geojson(out: &AuditOutput) -> Value {
+pub fn hotspots_geojson(out: &AuditOutput) -> HotspotCollection<'_> {
     let g = &out.network.graph;
-    let features: Vec<Value> = out
+    let features = out
         .scores
         .hotspots
         .iter()
@@ -25,23 +73,39 @@ pub fn hotspots_geojson(out: &AuditOutput) -> Value {
                     to_frac: 1.0,
                 },
             );
-            json!({
-                "type": "Feature",
-                "geometry": { "type": "LineString", "coordinates": line },
-                "properties": {
-                    "rank": h.rank, "edge": h.edge, "kind": h.kind, "street_id": h.street_id,
-                    "street": h.street, "class": h.class, "control": h.control,
-                    "speed_kmh": h.speed_kmh, "lanes": h.lanes, "children": h.children,
-                    "risk": (h.risk * 1e4).round() / 1e4,
-                    "product": (h.product * 1e4).round() / 1e4,
-                    "wait_s": h.wait_s.map(round2), "los": h.los.map(|l| l.as_str()),
-                    "crashes": h.crashes, "crashes_pedestrian": h.crashes_pedestrian,
-                    "crashes_ksi": h.crashes_ksi,
+            HotspotFeature {
+                geometry: HotspotLine {
+                    coordinates: line,
+                    kind: "LineString",
                 },
-            })
+                properties: HotspotProps {
+                    children: h.children,
+                    class: h.class,
+                    control: &h.control,
+                    crashes: h.crashes,
+                    crashes_ksi: h.crashes_ksi,
+                    crashes_pedestrian: h.crashes_pedestrian,
+                    edge: h.edge,
+                    kind: h.kind,
+                    lanes: h.lanes,
+                    los: h.los.map(|l| l.as_str()),
+                    product: (h.product * 1e4).round() / 1e4,
+                    rank: h.rank,
+                    risk: (h.risk * 1e4).round() / 1e4,
+                    speed_kmh: h.speed_kmh,
+                    street: &h.street,
+                    street_id: &h.street_id,
+                    wait_s: h.wait_s.map(round2),
+                },
+                kind: "Feature",
+            }
         })
         .collect();
-    json!({ "type": "FeatureCollection", "caution": crate::CAUTION, "features": features })
+    HotspotCollection {
+        caution: crate::CAUTION,
+        features,
+        kind: "FeatureCollection",
+    }
 }
 
 /// Hotspots as CSV, ranked.

@@ -6,6 +6,7 @@ pub mod atomic;
 pub mod catchments_csv;
 pub mod csv_safe;
 pub mod csvw;
+pub mod flows;
 pub mod geometry;
 pub mod homes_csv;
 pub mod hotspots;

@@ -222,6 +222,7 @@ pub fn reaudit(
     if !progress.report(Stage::Scoring, 0, 1) {
         return Err(Error::Cancelled);
     }
+    let ts = progress.now_ms();
     let scores = crate::score::score_audit(&layers, &network.graph, &homes, config);
     progress.report(Stage::Scoring, 1, 1);
     let t2 = progress.now_ms();
@@ -238,7 +239,8 @@ pub fn reaudit(
         timings: Timings {
             parse_ms: 0.0,
             network_ms: t1 - t0,
-            routing_ms: t2 - t1,
+            routing_ms: ts - t1,
+            scoring_ms: t2 - ts,
             total_ms: t2 - t0,
         },
     };

@@ -1,0 +1,119 @@
+//! `flows.geojson`: children per street side, path and crossing, on their shortest and their
+//! recommended routes. The default routes output: it aggregates homes (no single home can be
+//! read from it), so it may be shared, and it grows with the network, not with the homes.
+
+use super::edge_side;
+use super::geometry::step_line;
+use crate::network::PedGraph;
+use crate::pipeline::AuditOutput;
+use crate::risk::street_of;
+use crate::route::RouteStep;
+use serde::Serialize;
+use std::io::{self, Write};
+
+/// Children routed over one edge.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Serialize)]
+pub struct EdgeFlow {
+    pub shortest: u32,
+    pub recommended: u32,
+}
+
+/// Children per edge (indexed like `graph.edges`) on shortest and recommended routes; an edge
+/// walked twice by one route counts its children once.
+///
+/// ```
+/// let out = catchwalk::pipeline::audit_layers(
+///     Default::default(), &Default::default(), &mut catchwalk::pipeline::Silent).unwrap();
+/// assert!(catchwalk::export::flows::edge_flows(&out).is_empty());
+/// ```
+pub fn edge_flows(out: &AuditOutput) -> Vec<EdgeFlow> {
+    let n = out.network.graph.edges.len();
+    let mut flows = vec![EdgeFlow::default(); n];
+    let mut last_seen = vec![(usize::MAX, 0u8); n];
+    for (i, h) in out.homes.iter().enumerate() {
+        let children = out.layers.homes.get(i).map_or(0, |x| x.children);
+        for (k, r) in [(0u8, &h.shortest), (1u8, &h.recommended)] {
+            let Some(r) = r else { continue };
+            for s in &r.route.steps {
+                let e = s.edge as usize;
+                let (Some(f), Some(seen)) = (flows.get_mut(e), last_seen.get_mut(e)) else {
+                    continue;
+                };
+                if *seen == (i, k) {
+                    continue;
+                }
+                *seen = (i, k);
+                match k {
+                    0 => f.shortest += children,
+                    _ => f.recommended += children,
+                }
+            }
+        }
+    }
+    flows
+}
+
+#[derive(Serialize)]
+struct FlowProps<'a> {
+    edge: u32,
+    kind: &'static str,
+    street_id: &'a str,
+    children_shortest: u32,
+    children_recommended: u32,
+}
+
+#[derive(Serialize)]
+struct FlowFeature<'a> {
+    #[serde(rename = "type")]
+    kind: &'static str,
+    geometry: serde_json::Value,
+    properties: FlowProps<'a>,
+}
+
+fn line(graph: &PedGraph, edge: u32) -> Vec<[f64; 2]> {
+    let step = RouteStep {
+        edge,
+        from_frac: 0.0,
+        to_frac: 1.0,
+    };
+    // 7 decimals (about 1 cm): the precision the layers carry.
+    let r = |x: f64| (x * 1e7).round() / 1e7;
+    step_line(graph, &step)
+        .into_iter()
+        .map(|p| [r(p[0]), r(p[1])])
+        .collect()
+}
+
+/// Writes the flows as a GeoJSON FeatureCollection, one feature per line, streaming: only
+/// edges that some child walks.
+pub fn write_flows_geojson(out: &AuditOutput, w: &mut dyn Write) -> io::Result<()> {
+    let g = &out.network.graph;
+    let flows = edge_flows(out);
+    write!(
+        w,
+        "{{\"type\":\"FeatureCollection\",\"caution\":{},\"features\":[",
+        serde_json::to_string(crate::CAUTION)?
+    )?;
+    let mut first = true;
+    for (e, f) in flows.iter().enumerate() {
+        if f.shortest == 0 && f.recommended == 0 {
+            continue;
+        }
+        let Some(edge) = g.edges.get(e) else { continue };
+        let feature = FlowFeature {
+            kind: "Feature",
+            geometry: serde_json::json!({"type": "LineString", "coordinates": line(g, e as u32)}),
+            properties: FlowProps {
+                edge: e as u32,
+                kind: edge_side(&edge.kind),
+                street_id: street_of(g, edge, &out.layers.streets).map_or("", |s| s.id.as_str()),
+                children_shortest: f.shortest,
+                children_recommended: f.recommended,
+            },
+        };
+        w.write_all(if first { b"\n" } else { b",\n" })?;
+        first = false;
+        serde_json::to_writer(&mut *w, &feature)?;
+    }
+    w.write_all(b"\n]}\n")
+}

@@ -1,0 +1,126 @@
+//! Optimisations must not change results: the demo town's homes.csv and summary figures are
+//! pinned to committed digests, and routing on one thread or several gives identical output.
+//!
+//! The digests change only deliberately: when a change of method alters results, rerun with
+//! `PRINT_DIGESTS=1 cargo test --test output_pins -- --nocapture` and commit the new values
+//! with the reason.
+
+mod common;
+
+#[path = "../examples/support/synthetic_city.rs"]
+mod synthetic_city;
+
+use catchwalk::config::Config;
+use catchwalk::export::{homes_csv, summary_json};
+use catchwalk::input::{HomesFormat, RawLayers};
+use catchwalk::pipeline::{audit_layers, run_audit, AuditOutput, Silent};
+
+/// FNV-1a, 64 bit: a fixed, dependency-free fingerprint of an output file.
+fn fnv1a(bytes: &[u8]) -> u64 {
+    bytes.iter().fold(0xcbf2_9ce4_8422_2325, |h, &b| {
+        (h ^ u64::from(b)).wrapping_mul(0x0000_0100_0000_01b3)
+    })
+}
+
+/// summary.json without its wall-clock timings.
+fn summary_figures(out: &AuditOutput) -> String {
+    let mut s = summary_json(out);
+    if let Some(m) = s.as_object_mut() {
+        m.remove("timings_ms");
+    }
+    serde_json::to_string_pretty(&s).unwrap_or_default()
+}
+
+fn demo_audit() -> AuditOutput {
+    match audit_layers(common::demo_town(), &Config::default(), &mut Silent) {
+        Ok(o) => o,
+        Err(e) => panic!("demo town audit: {e}"),
+    }
+}
+
+/// Pinned on the demo town at the commit that introduced the edge facts table and parallel
+/// routing (outputs checked byte-identical to the previous commit's CLI run).
+const HOMES_CSV_DIGEST: u64 = 0x20aa_f8a1_ebfe_8e73;
+const SUMMARY_DIGEST: u64 = 0xd850_ded1_d740_e26f;
+
+#[test]
+fn demo_town_outputs_match_their_pinned_digests() {
+    let out = demo_audit();
+    let homes = fnv1a(homes_csv(&out).as_bytes());
+    let summary = fnv1a(summary_figures(&out).as_bytes());
+    if std::env::var_os("PRINT_DIGESTS").is_some() {
+        println!("HOMES_CSV_DIGEST: {homes:#018x}\nSUMMARY_DIGEST: {summary:#018x}");
+    }
+    assert_eq!(
+        homes, HOMES_CSV_DIGEST,
+        "homes.csv of the demo town changed"
+    );
+    assert_eq!(
+        summary, SUMMARY_DIGEST,
+        "summary figures of the demo town changed"
+    );
+}
+
+fn audit_on_threads(raw: &RawLayers, threads: usize) -> AuditOutput {
+    let pool = match rayon::ThreadPoolBuilder::new().num_threads(threads).build() {
+        Ok(p) => p,
+        Err(e) => panic!("thread pool: {e}"),
+    };
+    match pool.install(|| run_audit(raw, &Config::default(), &mut Silent)) {
+        Ok(o) => o,
+        Err(e) => panic!("audit: {e}"),
+    }
+}
+
+#[test]
+fn one_thread_and_several_give_identical_output() {
+    // A synthetic city with elementary and secondary schools (both safe-route cost tables),
+    // more schools than one routing batch.
+    let city = synthetic_city::city(4_000, 1_500, 20);
+    let file = |n: &str| {
+        city.files
+            .iter()
+            .find(|(name, _)| *name == n)
+            .map(|(_, t)| t.clone())
+            .unwrap_or_default()
+    };
+    let raw = RawLayers {
+        streets: file("streets.geojson"),
+        crossings: Some(file("crossings.geojson")),
+        schools: file("schools.geojson"),
+        homes: file("homes.csv"),
+        homes_format: HomesFormat::Csv,
+        ..RawLayers::default()
+    };
+    let one = audit_on_threads(&raw, 1);
+    let four = audit_on_threads(&raw, 4);
+    assert!(one.homes.iter().filter(|h| h.shortest.is_some()).count() > 1_000);
+    assert!(one.homes.iter().any(|h| h.safe.is_some()));
+    assert_eq!(one.homes, four.homes);
+    assert_eq!(homes_csv(&one), homes_csv(&four));
+    assert_eq!(summary_figures(&one), summary_figures(&four));
+}
+
+#[test]
+fn flows_count_each_routed_child_on_every_edge_of_its_route() {
+    let out = demo_audit();
+    let flows = catchwalk::export::flows::edge_flows(&out);
+    let mut expected = 0u64;
+    for (i, h) in out.homes.iter().enumerate() {
+        let Some(r) = &h.shortest else { continue };
+        let children = out.layers.homes[i].children;
+        let mut edges: Vec<u32> = r.route.steps.iter().map(|s| s.edge).collect();
+        edges.sort_unstable();
+        edges.dedup();
+        for e in &edges {
+            assert!(flows[*e as usize].shortest >= children);
+        }
+        expected += u64::from(children) * edges.len() as u64;
+    }
+    let total: u64 = flows.iter().map(|f| u64::from(f.shortest)).sum();
+    assert!(
+        expected > 1_000,
+        "the demo town routes children over many edges"
+    );
+    assert_eq!(total, expected);
+}
