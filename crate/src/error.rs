@@ -16,6 +16,10 @@ pub enum LayerName {
     Catchments,
     Mapping,
     Config,
+    /// What-if changes (`scenario`).
+    Interventions,
+    /// Site-visit notes (`project::notes`).
+    Notes,
 }
 
 impl fmt::Display for LayerName {
@@ -28,6 +32,8 @@ impl fmt::Display for LayerName {
             LayerName::Catchments => "catchments",
             LayerName::Mapping => "mapping",
             LayerName::Config => "config",
+            LayerName::Interventions => "interventions",
+            LayerName::Notes => "notes",
         };
         f.write_str(s)
     }

@@ -10,6 +10,7 @@
 
 pub mod audit;
 pub mod benefit;
+pub mod compare;
 pub mod config;
 pub mod error;
 pub mod export;
@@ -17,8 +18,10 @@ pub mod geodesy;
 pub mod input;
 pub mod network;
 pub mod pipeline;
+pub mod project;
 pub mod risk;
 pub mod route;
+pub mod scenario;
 pub mod score;
 
 #[cfg(target_arch = "wasm32")]

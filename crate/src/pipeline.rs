@@ -10,7 +10,7 @@ use crate::network::{build_network, Attachment, Network, PedEdge, PedGraph};
 use crate::risk::edge_risk_points;
 use crate::route::assign::{assign_schools, Assignment};
 use crate::route::path::{entrance_sources, route_to_school};
-use crate::route::tree::Tree;
+use crate::route::tree::{Reached, Tree};
 use crate::route::{Route, RouteKind};
 use serde::Serialize;
 use std::collections::HashMap;
@@ -102,6 +102,13 @@ pub struct AuditOutput {
     pub homes: Vec<HomeResult>,
     /// Per-home, per-catchment and hotspot scores (the scoring stage).
     pub scores: crate::score::Scores,
+    /// Per school: the corners each of its trees (shortest, recommended, safe) reached
+    /// (empty when not routed); a change to edges with neither end among them cannot alter
+    /// that tree (`scenario::reaudit`).
+    pub tree_reach: Vec<[Reached; 3]>,
+    /// The interventions the audit ran with, over which base layers (`None`: the layers as
+    /// read).
+    pub scenario: Option<crate::scenario::Overlay>,
     pub timings: Timings,
 }
 
@@ -116,8 +123,24 @@ pub fn run_audit(
         return Err(Error::Cancelled);
     }
     let (layers, warnings) = read_layers(raw)?;
+    let interventions = match raw
+        .interventions
+        .as_deref()
+        .filter(|t| !t.trim().is_empty())
+    {
+        Some(text) => Some(crate::scenario::read::read_interventions(text)?),
+        None => None,
+    };
     let t1 = progress.now_ms();
-    let mut out = audit_layers(layers, config, progress)?;
+    let mut out = match interventions {
+        Some(list) => crate::scenario::reaudit::audit_overlay(
+            std::sync::Arc::new(layers),
+            list,
+            config,
+            progress,
+        )?,
+        None => audit_layers(layers, config, progress)?,
+    };
     out.warnings.splice(0..0, warnings);
     out.timings.parse_ms = t1 - t0;
     out.timings.total_ms = progress.now_ms() - t0;
@@ -333,13 +356,12 @@ pub fn audit_layers(
     let mut tree = Tree::for_graph(g);
     let mut safe_cost_by_students: HashMap<Students, Vec<f64>> = HashMap::new();
     let n_schools = layers.schools.len();
+    let mut tree_reach = vec![<[Reached; 3]>::default(); n_schools];
     for (s, entrances) in school_att.iter().enumerate() {
         if !progress.report(Stage::Routing, s, n_schools) {
             return Err(Error::Cancelled);
         }
-        let members: Vec<usize> = (0..homes.len())
-            .filter(|&i| homes[i].assignment.school == Some(s) && homes[i].attachment.is_some())
-            .collect();
+        let members = school_members(&homes, s);
         if members.is_empty() || entrances.is_empty() {
             continue;
         }
@@ -347,57 +369,20 @@ pub fn audit_layers(
         let safe_cost = safe_cost_by_students
             .entry(students)
             .or_insert_with(|| safe_costs(g, &layers.streets, config, students));
-        for (kind, cost) in [
-            (RouteKind::Shortest, &walk_cost),
-            (RouteKind::Recommended, &rec_cost),
-            (RouteKind::Safe, &*safe_cost),
-        ] {
-            let routes = route_members(
-                g,
-                &layers.streets,
-                config,
-                kind,
-                cost,
-                entrances,
-                &members,
-                &home_att,
-                &mut tree,
-            );
-            for (&i, r) in members.iter().zip(routes) {
-                match kind {
-                    RouteKind::Shortest => homes[i].shortest = r,
-                    RouteKind::Recommended => homes[i].recommended = r,
-                    RouteKind::Safe => homes[i].safe = r,
-                }
-            }
-        }
-        for &i in &members {
-            apply_detour_cap(&mut homes[i], config.route.detour_cap);
-        }
+        let costs: [&[f64]; 3] = [&walk_cost, &rec_cost, safe_cost];
+        tree_reach[s] = route_school(
+            g,
+            &layers.streets,
+            config,
+            costs,
+            entrances,
+            &members,
+            &mut homes,
+            &mut tree,
+        );
     }
     progress.report(Stage::Routing, n_schools, n_schools);
-    for (i, h) in homes.iter().enumerate() {
-        if h.shortest.is_none() {
-            let home = &layers.homes[i];
-            if h.attachment.is_none() {
-                continue; // reported by prepare_network
-            }
-            let why = if h.assignment.school.is_none() {
-                format!("home {} has no school it can reach on foot", home.id)
-            } else {
-                format!(
-                    "home {} cannot reach its school on the walking network",
-                    home.id
-                )
-            };
-            network.qa.items.push(QaItem {
-                kind: QaKind::UnreachableHome,
-                at: home.at,
-                feature: Some(home.feature),
-                message: why,
-            });
-        }
-    }
+    unreachable_qa(&layers, &homes, &mut network.qa);
     if !progress.report(Stage::Scoring, 0, 1) {
         return Err(Error::Cancelled);
     }
@@ -412,6 +397,8 @@ pub fn audit_layers(
         school_att,
         homes,
         scores,
+        tree_reach,
+        scenario: None,
         timings: Timings {
             parse_ms: 0.0,
             network_ms: t1 - t0,
@@ -419,6 +406,80 @@ pub fn audit_layers(
             total_ms: t2 - t0,
         },
     })
+}
+
+/// Home indices assigned to school `s` that reach the network.
+pub fn school_members(homes: &[HomeResult], s: usize) -> Vec<usize> {
+    (0..homes.len())
+        .filter(|&i| homes[i].assignment.school == Some(s) && homes[i].attachment.is_some())
+        .collect()
+}
+
+/// Routes one school's `members` on the shortest, recommended and safe costs (in that order
+/// in `costs`), holds the recommended routes to the detour cap, and returns the corners each
+/// tree reached.
+#[allow(clippy::too_many_arguments)]
+pub fn route_school(
+    g: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+    costs: [&[f64]; 3],
+    entrances: &[Attachment],
+    members: &[usize],
+    homes: &mut [HomeResult],
+    tree: &mut Tree,
+) -> [Reached; 3] {
+    let home_att: Vec<Option<Attachment>> = homes.iter().map(|h| h.attachment).collect();
+    let mut reach = <[Reached; 3]>::default();
+    for (k, (kind, cost)) in [RouteKind::Shortest, RouteKind::Recommended, RouteKind::Safe]
+        .into_iter()
+        .zip(costs)
+        .enumerate()
+    {
+        let routes = route_members(
+            g, streets, config, kind, cost, entrances, members, &home_att, tree,
+        );
+        if let Some(r) = reach.get_mut(k) {
+            *r = tree.reached();
+        }
+        for (&i, r) in members.iter().zip(routes) {
+            let Some(h) = homes.get_mut(i) else { continue };
+            match kind {
+                RouteKind::Shortest => h.shortest = r,
+                RouteKind::Recommended => h.recommended = r,
+                RouteKind::Safe => h.safe = r,
+            }
+        }
+    }
+    for &i in members {
+        if let Some(h) = homes.get_mut(i) {
+            apply_detour_cap(h, config.route.detour_cap);
+        }
+    }
+    reach
+}
+
+/// QA items for homes that reach the network but not their school.
+pub fn unreachable_qa(layers: &Layers, homes: &[HomeResult], qa: &mut crate::network::qa::Qa) {
+    for (h, home) in homes.iter().zip(&layers.homes) {
+        if h.shortest.is_some() || h.attachment.is_none() {
+            continue; // unattached homes are reported by prepare_network
+        }
+        let why = if h.assignment.school.is_none() {
+            format!("home {} has no school it can reach on foot", home.id)
+        } else {
+            format!(
+                "home {} cannot reach its school on the walking network",
+                home.id
+            )
+        };
+        qa.items.push(QaItem {
+            kind: QaKind::UnreachableHome,
+            at: home.at,
+            feature: Some(home.feature),
+            message: why,
+        });
+    }
 }
 
 /// Risk points of one trip along a route (partial edges pro rata).

@@ -29,6 +29,8 @@ struct PageLayers {
     preset: Preset,
     #[serde(default)]
     mapping: Option<String>,
+    #[serde(default)]
+    interventions: Option<String>,
 }
 
 impl From<PageLayers> for RawLayers {
@@ -42,6 +44,7 @@ impl From<PageLayers> for RawLayers {
             catchments: p.catchments,
             preset: p.preset,
             mapping: p.mapping,
+            interventions: p.interventions,
         }
     }
 }
@@ -144,7 +147,9 @@ pub fn plan(
 ) -> Result<String, JsValue> {
     let out = run(layers_json, config_json, progress)?;
     let plan = plan_upgrades(&out, &out.scores.homes, budget);
-    serde_json::to_string(&export::plan_json(&out, &plan)).map_err(to_js)
+    let mut doc = export::plan_json(&out, &plan);
+    doc["interventions"] = crate::scenario::from_plan::plan_interventions(&out, &plan);
+    serde_json::to_string(&doc).map_err(to_js)
 }
 
 /// The page's audit document; the large collections serialise straight to text.
@@ -160,6 +165,9 @@ struct AuditDoc<'a> {
     hotspots: Value,
     layers: Value,
     warnings: &'a [crate::error::Warning],
+    /// What a re-audit did (absent for a full audit).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    reaudit: Option<Value>,
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
@@ -174,15 +182,26 @@ pub fn audit(
     progress: &js_sys::Function,
 ) -> Result<String, JsValue> {
     let out = run(layers_json, config_json, progress)?;
+    let doc = audit_doc(&out, None)?;
+    LAST_AUDIT.with(|last| *last.borrow_mut() = Some(out));
+    Ok(doc)
+}
+
+thread_local! {
+    /// The last audit, which [`reaudit`] starts from (the worker is single-threaded).
+    static LAST_AUDIT: std::cell::RefCell<Option<AuditOutput>> = const { std::cell::RefCell::new(None) };
+}
+
+fn audit_doc(out: &AuditOutput, extra: Option<Value>) -> Result<String, JsValue> {
     let doc = AuditDoc {
-        summary: export::summary_json(&out),
-        homes_csv: export::homes_csv(&out),
-        catchments_csv: export::catchments_csv(&out),
-        hotspots_csv: export::hotspots_csv(&out),
-        routes: export::routes_geojson(&out),
+        summary: export::summary_json(out),
+        homes_csv: export::homes_csv(out),
+        catchments_csv: export::catchments_csv(out),
+        hotspots_csv: export::hotspots_csv(out),
+        routes: export::routes_geojson(out),
         qa: export::qa_geojson(&out.network.qa),
-        centrelines: export::centrelines_geojson(&out),
-        hotspots: export::hotspots_geojson(&out),
+        centrelines: export::centrelines_geojson(out),
+        hotspots: export::hotspots_geojson(out),
         layers: json!({
             "crossings": out.layers.crossings,
             "schools": out.layers.schools,
@@ -192,6 +211,45 @@ pub fn audit(
                 .collect::<Vec<_>>(),
         }),
         warnings: &out.warnings,
+        reaudit: extra,
     };
     serde_json::to_string(&doc).map_err(to_js)
+}
+
+/// Re-audits the last audit's layers with `interventions_geojson` (the scenario's whole list,
+/// an interventions layer; empty text for none), re-routing only the schools the change
+/// touches. Returns the same document as [`audit`] with `reaudit: {schools,
+/// schools_rerouted, full, core_ms}`; the result becomes the last audit.
+#[wasm_bindgen]
+pub fn reaudit(
+    interventions_geojson: &str,
+    progress: &js_sys::Function,
+) -> Result<String, JsValue> {
+    let mut p = JsProgress { callback: progress };
+    let t0 = js_sys::Date::now();
+    let list = if interventions_geojson.trim().is_empty() {
+        Vec::new()
+    } else {
+        crate::scenario::read::read_interventions(interventions_geojson).map_err(error_to_js)?
+    };
+    let result = LAST_AUDIT.with(|last| match last.borrow().as_ref() {
+        Some(prev) => crate::scenario::reaudit::reaudit(prev, list, &mut p).map_err(error_to_js),
+        None => Err(to_js("run an audit before a re-audit")),
+    })?;
+    let (out, stats) = result;
+    let core_ms = js_sys::Date::now() - t0;
+    let mut extra = serde_json::to_value(stats).map_err(to_js)?;
+    extra["core_ms"] = json!(core_ms);
+    let doc = audit_doc(&out, Some(extra))?;
+    LAST_AUDIT.with(|last| *last.borrow_mut() = Some(out));
+    Ok(doc)
+}
+
+/// Compares two audits' `homes_csv` (before, after) per catchment, as `catchwalk compare`
+/// does; returns `comparison.json` as text.
+#[wasm_bindgen(js_name = compareAudits)]
+pub fn compare_audits(before_homes_csv: &str, after_homes_csv: &str) -> Result<String, JsValue> {
+    let c =
+        crate::compare::compare_homes(before_homes_csv, after_homes_csv).map_err(error_to_js)?;
+    serde_json::to_string(&c).map_err(to_js)
 }

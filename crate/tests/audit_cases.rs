@@ -60,6 +60,7 @@ fn four_way_with_home(crossings: Option<String>, home: [f64; 2]) -> AuditOutput 
         catchments: None,
         preset: Preset::Plain,
         mapping: None,
+        interventions: None,
     };
     match run_audit(&raw, &Config::default(), &mut Silent) {
         Ok(out) => out,

@@ -58,6 +58,18 @@ enum Command {
         #[arg(long, value_name = "DIR")]
         out: PathBuf,
     },
+    /// Compare two audit output folders (before, after) per catchment: children in the walk
+    /// zone, with a safe route, on hazardous routes, mean risk and active minutes, homes whose
+    /// route changed, children who gained or lost a safe route. Writes comparison.json and
+    /// comparison.csv to --out if given.
+    Compare {
+        /// The audit output folder before the change (holds homes.csv).
+        before: PathBuf,
+        /// The audit output folder after the change.
+        after: PathBuf,
+        #[arg(long, value_name = "DIR")]
+        out: Option<PathBuf>,
+    },
     /// Validate the layers and report network QA only (qa.geojson to --out if given).
     Check {
         #[command(flatten)]
@@ -104,6 +116,9 @@ struct LayerArgs {
     /// Safe-route rule set: a shipped name (default, pa-447) or a rule-set JSON file.
     #[arg(long, value_name = "NAME|FILE")]
     rules: Option<String>,
+    /// What-if interventions (GeoJSON, `kind` property), applied as an overlay on the layers.
+    #[arg(long, value_name = "FILE")]
+    interventions: Option<PathBuf>,
 }
 
 fn read(path: &Path) -> Result<String, String> {
@@ -131,6 +146,7 @@ fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
             PresetArg::Plain => Preset::Plain,
         },
         mapping: read_opt(&a.mapping)?,
+        interventions: read_opt(&a.interventions)?,
     };
     let mut config = match &a.config {
         Some(p) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,
@@ -262,6 +278,13 @@ fn run(cli: Cli) -> Result<(), String> {
                 .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
             write(&out, "plan.json", &json(&export::plan_json(&result, &plan)))?;
             write(&out, "plan.csv", &export::plan_csv(&plan))?;
+            write(
+                &out,
+                "interventions.geojson",
+                &json(&catchwalk::scenario::from_plan::plan_interventions(
+                    &result, &plan,
+                )),
+            )?;
             say!("rank upgrade          children_gained  street");
             for s in &plan.steps {
                 say!(
@@ -291,6 +314,23 @@ fn run(cli: Cli) -> Result<(), String> {
             say!("{}", catchwalk::CAUTION);
             Ok(())
         }
+        Command::Compare { before, after, out } => {
+            let homes = |d: &Path| read(&d.join("homes.csv"));
+            let c = catchwalk::compare::compare_homes(&homes(&before)?, &homes(&after)?)
+                .map_err(|e| e.to_string())?;
+            if let Some(out) = out {
+                std::fs::create_dir_all(&out)
+                    .map_err(|e| format!("cannot create {}: {e}", out.display()))?;
+                write(&out, "comparison.json", &json(&c))?;
+                write(
+                    &out,
+                    "comparison.csv",
+                    &catchwalk::compare::comparison_csv(&c),
+                )?;
+            }
+            print_comparison(&c);
+            Ok(())
+        }
         Command::Check { layers, out } => {
             let (raw, config) = raw_layers(&layers)?;
             let mut bar = Bar::new();
@@ -315,6 +355,54 @@ fn run(cli: Cli) -> Result<(), String> {
             Ok(())
         }
     }
+}
+
+/// Prints a comparison as a table (formatting only).
+fn print_comparison(c: &catchwalk::compare::Comparison) {
+    let num = |x: Option<f64>| x.map(|v| format!("{v:.2}")).unwrap_or("-".into());
+    say!(
+        "{:<12} {:>15} {:>15} {:>15} {:>13} {:>13} {:>8} {:>6} {:>5}",
+        "school",
+        "walk_zone",
+        "safe_route",
+        "hazardous",
+        "risk/trip",
+        "act_min",
+        "changed",
+        "gained",
+        "lost"
+    );
+    let pair = |b: f64, a: f64| format!("{b} -> {a}");
+    for k in &c.catchments {
+        let (b, a) = (&k.before, &k.after);
+        say!(
+            "{:<12} {:>15} {:>15} {:>15} {:>13} {:>13} {:>8} {:>6} {:>5}",
+            k.school_id,
+            pair(b.children_in_walk_zone, a.children_in_walk_zone),
+            pair(b.children_safe_route, a.children_safe_route),
+            pair(b.children_hazardous, a.children_hazardous),
+            format!(
+                "{} -> {}",
+                num(b.mean_risk_per_trip),
+                num(a.mean_risk_per_trip)
+            ),
+            format!(
+                "{} -> {}",
+                num(b.mean_active_minutes),
+                num(a.mean_active_minutes)
+            ),
+            k.children_route_changed,
+            k.children_gained_safe_route,
+            k.children_lost_safe_route
+        );
+    }
+    say!(
+        "{} homes' routes changed; {} gained and {} lost a safe route",
+        c.homes_route_changed.len(),
+        c.homes_gained_safe_route.len(),
+        c.homes_lost_safe_route.len()
+    );
+    say!("{}", catchwalk::CAUTION);
 }
 
 /// Prints the per-catchment balance and the top hotspots (formatting only).

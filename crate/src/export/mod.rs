@@ -40,3 +40,8 @@ pub(crate) fn shareable_csv(w: csv::Writer<Vec<u8>>) -> String {
     let table = String::from_utf8(w.into_inner().unwrap_or_default()).unwrap_or_default();
     format!("# {}\n{table}", crate::CAUTION)
 }
+
+/// [`shareable_csv`] for other modules' tables (the caution line, then the table).
+pub fn shareable(w: csv::Writer<Vec<u8>>) -> String {
+    shareable_csv(w)
+}

@@ -86,6 +86,7 @@ pub fn summary_json(out: &AuditOutput) -> Value {
         "rules": { "name": out.config.score.rules.name, "title": out.config.score.rules.title },
         "timings_ms": out.timings,
         "config": out.config,
+        "interventions": crate::scenario::reaudit::applied(out),
     });
     if let (Some(d), Some(e)) = (doc.as_object_mut(), extra.as_object()) {
         d.extend(e.clone());

@@ -51,6 +51,8 @@ pub struct RawLayers {
     pub preset: Preset,
     /// A user's field-mapping file (JSON), overriding the preset.
     pub mapping: Option<String>,
+    /// What-if interventions (GeoJSON), applied as an overlay (`scenario`).
+    pub interventions: Option<String>,
 }
 
 /// Parses and validates every layer. Warnings do not stop the audit; errors do.

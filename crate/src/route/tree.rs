@@ -175,6 +175,28 @@ impl Tree {
         out
     }
 
+    /// The corners the last growth reached (settled or only queued), as a bit set: a change
+    /// to edges with neither end among them cannot alter the tree, since Dijkstra only reads
+    /// the edges of the corners it settles (`scenario::reaudit`).
+    ///
+    /// ```
+    /// use catchwalk::route::tree::{Source, Tree};
+    /// let g = catchwalk::network::PedGraph::toy_path(&[10.0, 5.0]);
+    /// let mut t = Tree::for_graph(&g);
+    /// t.grow(&g, &[10.0, 5.0], &[Source { corner: 0, cost: 0.0, origin: 0 }], &[1]);
+    /// let r = t.reached();
+    /// assert!(r.contains(0) && r.contains(1) && !r.contains(2)); // stopped at corner 1
+    /// ```
+    pub fn reached(&self) -> Reached {
+        let mut bits = vec![0u64; self.cost.len().div_ceil(64)];
+        for &c in &self.touched {
+            if let Some(w) = bits.get_mut(c as usize / 64) {
+                *w |= 1 << (c % 64);
+            }
+        }
+        Reached(bits)
+    }
+
     fn reset(&mut self) {
         for &c in &self.touched {
             self.cost[c as usize] = f64::INFINITY;
@@ -182,5 +204,17 @@ impl Tree {
             self.origin[c as usize] = NONE;
         }
         self.touched.clear();
+    }
+}
+
+/// A set of corners a tree reached ([`Tree::reached`]); empty by default.
+#[derive(Debug, Clone, Default, PartialEq, Eq)]
+pub struct Reached(Vec<u64>);
+
+impl Reached {
+    pub fn contains(&self, corner: u32) -> bool {
+        self.0
+            .get(corner as usize / 64)
+            .is_some_and(|w| w & (1 << (corner % 64)) != 0)
     }
 }

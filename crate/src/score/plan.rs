@@ -1,7 +1,8 @@
 //! Upgrade planner: greedily choose the upgrades that give the most children a safe route.
 //!
 //! Candidates come from the rules that make routes in the walk zone unsafe (on the
-//! recommended or the shortest route): a crossing can get a signal, a crossing guard or a
+//! recommended or the shortest route): a crossing can get a signal (it then controls every
+//! crossing of its junction, as a crossings-layer signal does), a crossing guard or a
 //! refuge island; a street can get a lower speed or sidewalks on both sides. Each round
 //! tries every candidate as an overlay on the network, re-routes only the schools whose
 //! routes touch it, and keeps the one that gives the most children a safe route (ties: the
@@ -121,12 +122,22 @@ fn apply(
     };
     let street_idx = graph.segments.get(e.segment() as usize).map(|s| s.street);
     match up {
-        Upgrade::Signal | Upgrade::Guard | Upgrade::Refuge => {
+        Upgrade::Signal => {
+            for k in signal_edges(graph, edge) {
+                if let Some(e) = graph.edges.get_mut(k as usize) {
+                    let old = e.kind.clone();
+                    if let PedEdgeKind::Crossing { control, .. } = &mut e.kind {
+                        control.device = Device::Signal;
+                        undo.push(Undo::Edge(k, old));
+                    }
+                }
+            }
+        }
+        Upgrade::Guard | Upgrade::Refuge => {
             if let Some(e) = graph.edges.get_mut(edge as usize) {
                 let old = e.kind.clone();
                 if let PedEdgeKind::Crossing { control, .. } = &mut e.kind {
                     match up {
-                        Upgrade::Signal => control.device = Device::Signal,
                         Upgrade::Guard => control.guard = Some(Vec::new()),
                         _ => control.refuge_island = true,
                     }
@@ -158,6 +169,30 @@ fn apply(
         }
     }
     undo
+}
+
+/// The crossings a signal at `edge` controls: every crossing at its junction, as a
+/// crossings-layer signal there would (a doorstep crossing has no junction: itself alone).
+fn signal_edges(graph: &PedGraph, edge: u32) -> Vec<u32> {
+    let Some(e) = graph.edges.get(edge as usize) else {
+        return Vec::new();
+    };
+    let PedEdgeKind::Crossing { junction, .. } = e.kind else {
+        return Vec::new();
+    };
+    if PedGraph::is_doorstep(e) {
+        return vec![edge];
+    }
+    graph
+        .edges
+        .iter()
+        .enumerate()
+        .filter(|(_, x)| {
+            !PedGraph::is_doorstep(x)
+                && matches!(x.kind, PedEdgeKind::Crossing { junction: j, .. } if j == junction)
+        })
+        .map(|(k, _)| k as u32)
+        .collect()
 }
 
 fn revert(undo: Vec<Undo>, graph: &mut PedGraph, streets: &mut [Street]) {
@@ -361,7 +396,8 @@ impl State<'_> {
     /// Edges an upgrade changes.
     fn changed_edges(&self, up: Upgrade, edge: u32) -> BTreeSet<u32> {
         match up {
-            Upgrade::Signal | Upgrade::Guard | Upgrade::Refuge => [edge].into(),
+            Upgrade::Signal => signal_edges(&self.graph, edge).into_iter().collect(),
+            Upgrade::Guard | Upgrade::Refuge => [edge].into(),
             Upgrade::SpeedReduction | Upgrade::Sidewalk => {
                 let street = self
                     .graph
