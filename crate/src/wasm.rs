@@ -253,3 +253,33 @@ pub fn compare_audits(before_homes_csv: &str, after_homes_csv: &str) -> Result<S
         crate::compare::compare_homes(before_homes_csv, after_homes_csv).map_err(error_to_js)?;
     serde_json::to_string(&c).map_err(to_js)
 }
+
+/// Writes a project file (zip bytes) from the page's project JSON: `{layers, config,
+/// scenarios: [{name, interventions}], notes, photos: [{name, media_type, bytes (base64)}]}`
+/// (see `docs/project-format.md`).
+#[wasm_bindgen(js_name = projectWrite)]
+pub fn project_write(project_json: &str) -> Result<Vec<u8>, JsValue> {
+    let p: crate::project::Project = serde_json::from_str(project_json).map_err(to_js)?;
+    crate::project::write_project(&p).map_err(error_to_js)
+}
+
+/// Reads a project file (zip bytes) into the page's project JSON ([`project_write`]'s input).
+#[wasm_bindgen(js_name = projectRead)]
+pub fn project_read(bytes: &[u8]) -> Result<String, JsValue> {
+    let p = crate::project::read_project(bytes).map_err(error_to_js)?;
+    serde_json::to_string(&p).map_err(to_js)
+}
+
+/// The interventions layer an audit of the project runs with: the scenario `scenario` (empty
+/// for none) and, with `observations`, the notes' observed corrections; empty text for none.
+#[wasm_bindgen(js_name = projectInterventions)]
+pub fn project_interventions(
+    project_json: &str,
+    scenario: &str,
+    observations: bool,
+) -> Result<String, JsValue> {
+    let p: crate::project::Project = serde_json::from_str(project_json).map_err(to_js)?;
+    let name = (!scenario.is_empty()).then_some(scenario);
+    let text = p.interventions(name, observations).map_err(error_to_js)?;
+    Ok(text.unwrap_or_default())
+}

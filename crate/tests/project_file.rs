@@ -171,3 +171,127 @@ fn an_observed_correction_becomes_an_observation_intervention() {
         matches!(&list[0].change, catchwalk::scenario::Change::Sidewalk { street, .. } if street == "ST031")
     );
 }
+
+fn cli(args: &[&str]) -> (bool, String, String) {
+    match std::process::Command::new(env!("CARGO_BIN_EXE_catchwalk"))
+        .args(args)
+        .output()
+    {
+        Ok(o) => (
+            o.status.success(),
+            String::from_utf8_lossy(&o.stdout).into(),
+            String::from_utf8_lossy(&o.stderr).into(),
+        ),
+        Err(e) => panic!("cannot run catchwalk: {e}"),
+    }
+}
+
+#[test]
+fn cli_project_new_then_audit_a_scenario_equals_the_audit_of_the_files() {
+    let dir = std::env::temp_dir().join(format!("catchwalk-project-{}", std::process::id()));
+    let _ = std::fs::remove_dir_all(&dir);
+    let _ = std::fs::create_dir_all(&dir);
+    let path = |f: &str| dir.join(f).to_string_lossy().into_owned();
+    let iv = json!({"type": "FeatureCollection", "features": [{"type": "Feature", "geometry": null,
+        "properties": {"kind": "speed", "street": "ST009", "speed_kmh": 30}}]});
+    let _ = std::fs::write(path("iv.geojson"), iv.to_string());
+    let _ = std::fs::write(path("photo.jpg"), [0xffu8, 0xd8, 0xff, 0xe0]);
+    let notes = catchwalk::project::notes::notes_geojson(&demo_project().notes);
+    let _ = std::fs::write(path("notes.geojson"), notes.to_string());
+    let layer = |f: &str| format!("{DIR}{f}");
+    let common = [
+        "--streets".to_string(),
+        layer("streets.geojson"),
+        "--crossings".into(),
+        layer("crossings.geojson"),
+        "--schools".into(),
+        layer("schools.geojson"),
+        "--homes".into(),
+        layer("homes.geojson"),
+        "--catchments".into(),
+        layer("catchments.geojson"),
+        "--rules".into(),
+        "pa-447".into(),
+    ];
+    let mut args: Vec<String> = vec!["project".into(), "new".into()];
+    args.extend(common.iter().cloned());
+    args.extend([
+        "--add-scenario".into(),
+        format!("slower ring={}", path("iv.geojson")),
+        "--notes".into(),
+        path("notes.geojson"),
+        "--photo".into(),
+        path("photo.jpg"),
+        "--out".into(),
+        path("town.catchwalk"),
+    ]);
+    let refs: Vec<&str> = args.iter().map(|a| a.as_str()).collect();
+    let (ok, out, err) = cli(&refs);
+    assert!(ok, "{err}");
+    assert!(
+        out.contains("1 scenario(s), 2 note(s), 1 photo(s)"),
+        "{out}"
+    );
+    let (ok, _, err) = cli(&[
+        "audit",
+        "--project",
+        &path("town.catchwalk"),
+        "--scenario",
+        "slower ring",
+        "--out",
+        &path("a"),
+    ]);
+    assert!(ok, "{err}");
+    let mut args: Vec<String> = vec!["audit".into()];
+    args.extend(common.iter().cloned());
+    args.extend([
+        "--interventions".into(),
+        path("iv.geojson"),
+        "--out".into(),
+        path("b"),
+    ]);
+    let refs: Vec<&str> = args.iter().map(|a| a.as_str()).collect();
+    let (ok, _, err) = cli(&refs);
+    assert!(ok, "{err}");
+    let homes =
+        |d: &str| std::fs::read_to_string(dir.join(d).join("homes.csv")).unwrap_or_default();
+    assert!(!homes("a").is_empty());
+    assert_eq!(homes("a"), homes("b"));
+    // Observations: the note's observed sidewalk joins the scenario, marked as observed.
+    let (ok, _, err) = cli(&[
+        "audit",
+        "--project",
+        &path("town.catchwalk"),
+        "--scenario",
+        "slower ring",
+        "--observations",
+        "--out",
+        &path("c"),
+    ]);
+    assert!(ok, "{err}");
+    let summary: serde_json::Value = serde_json::from_str(
+        &std::fs::read_to_string(dir.join("c").join("summary.json")).unwrap_or_default(),
+    )
+    .unwrap_or_default();
+    let origins: Vec<&str> = summary["interventions"]
+        .as_array()
+        .into_iter()
+        .flatten()
+        .filter_map(|i| i["origin"].as_str())
+        .collect();
+    assert_eq!(origins, ["proposal", "observation"]);
+    let (ok, _, err) = cli(&[
+        "audit",
+        "--project",
+        &path("town.catchwalk"),
+        "--scenario",
+        "faster",
+        "--out",
+        &path("d"),
+    ]);
+    assert!(
+        !ok && err.contains("no scenario 'faster'") && err.contains("slower ring"),
+        "{err}"
+    );
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -70,12 +70,38 @@ enum Command {
         #[arg(long, value_name = "DIR")]
         out: Option<PathBuf>,
     },
+    /// Project files: one file holding the layers, settings, scenarios, notes and photos.
+    Project {
+        #[command(subcommand)]
+        action: ProjectAction,
+    },
     /// Validate the layers and report network QA only (qa.geojson to --out if given).
     Check {
         #[command(flatten)]
         layers: LayerArgs,
         #[arg(long, value_name = "DIR")]
         out: Option<PathBuf>,
+    },
+}
+
+#[derive(Subcommand)]
+enum ProjectAction {
+    /// Make a project file from layer files (and, optionally, scenarios, notes and photos).
+    New {
+        #[command(flatten)]
+        layers: LayerArgs,
+        /// A named scenario from an interventions file (repeatable).
+        #[arg(long = "add-scenario", value_name = "NAME=FILE")]
+        scenarios: Vec<String>,
+        /// Site-visit notes (GeoJSON, as the page exports them).
+        #[arg(long, value_name = "FILE")]
+        notes: Option<PathBuf>,
+        /// A photo to keep in the project (repeatable); notes refer to it by file name.
+        #[arg(long = "photo", value_name = "FILE")]
+        photos: Vec<PathBuf>,
+        /// The project file to write.
+        #[arg(long, value_name = "FILE")]
+        out: PathBuf,
     },
 }
 
@@ -90,14 +116,14 @@ enum PresetArg {
 #[derive(Args)]
 struct LayerArgs {
     /// Streets: GeoJSON LineStrings in WGS84 longitude/latitude.
-    #[arg(long, value_name = "FILE")]
-    streets: PathBuf,
+    #[arg(long, value_name = "FILE", required_unless_present = "project")]
+    streets: Option<PathBuf>,
     /// Schools: GeoJSON Points or Polygons.
-    #[arg(long, value_name = "FILE")]
-    schools: PathBuf,
+    #[arg(long, value_name = "FILE", required_unless_present = "project")]
+    schools: Option<PathBuf>,
     /// Homes: GeoJSON Points, or CSV with lon/lat columns (by the .csv extension).
-    #[arg(long, value_name = "FILE")]
-    homes: PathBuf,
+    #[arg(long, value_name = "FILE", required_unless_present = "project")]
+    homes: Option<PathBuf>,
     /// Crossing points: GeoJSON Points with their traffic control.
     #[arg(long, value_name = "FILE")]
     crossings: Option<PathBuf>,
@@ -119,6 +145,16 @@ struct LayerArgs {
     /// What-if interventions (GeoJSON, `kind` property), applied as an overlay on the layers.
     #[arg(long, value_name = "FILE")]
     interventions: Option<PathBuf>,
+    /// A project file (made by `catchwalk project new` or the page): its layers and settings
+    /// replace the layer options (--config and --rules still override its settings).
+    #[arg(long, value_name = "FILE", conflicts_with_all = ["streets", "schools", "homes", "crossings", "catchments", "mapping"])]
+    project: Option<PathBuf>,
+    /// The project's scenario to apply (its interventions, by name).
+    #[arg(long, value_name = "NAME", requires = "project")]
+    scenario: Option<String>,
+    /// Also apply the observed corrections of the project's site-visit notes.
+    #[arg(long, requires = "project")]
+    observations: bool,
 }
 
 fn read(path: &Path) -> Result<String, String> {
@@ -129,28 +165,59 @@ fn read_opt(path: &Option<PathBuf>) -> Result<Option<String>, String> {
     path.as_deref().map(read).transpose()
 }
 
+fn required(p: &Option<PathBuf>, flag: &str) -> Result<String, String> {
+    match p {
+        Some(p) => read(p),
+        None => Err(format!("{flag} FILE is required (or give --project FILE)")),
+    }
+}
+
 fn raw_layers(a: &LayerArgs) -> Result<(RawLayers, Config), String> {
-    let homes_format = match a.homes.extension().and_then(|e| e.to_str()) {
-        Some(e) if e.eq_ignore_ascii_case("csv") => HomesFormat::Csv,
-        _ => HomesFormat::GeoJson,
+    let (mut raw, project_config) = match &a.project {
+        Some(path) => {
+            let bytes =
+                std::fs::read(path).map_err(|e| format!("cannot read {}: {e}", path.display()))?;
+            let p = catchwalk::project::read_project(&bytes)
+                .map_err(|e| format!("{}: {e}", path.display()))?;
+            let iv = p
+                .interventions(a.scenario.as_deref(), a.observations)
+                .map_err(|e| e.to_string())?;
+            (p.layers.raw(iv), p.config)
+        }
+        None => {
+            let homes_format = match a
+                .homes
+                .as_deref()
+                .and_then(|h| h.extension())
+                .and_then(|e| e.to_str())
+            {
+                Some(e) if e.eq_ignore_ascii_case("csv") => HomesFormat::Csv,
+                _ => HomesFormat::GeoJson,
+            };
+            let raw = RawLayers {
+                streets: required(&a.streets, "--streets")?,
+                crossings: read_opt(&a.crossings)?,
+                schools: required(&a.schools, "--schools")?,
+                homes: required(&a.homes, "--homes")?,
+                homes_format,
+                catchments: read_opt(&a.catchments)?,
+                preset: match a.preset {
+                    PresetArg::Osm => Preset::Osm,
+                    PresetArg::Plain => Preset::Plain,
+                },
+                mapping: read_opt(&a.mapping)?,
+                interventions: None,
+            };
+            (raw, None)
+        }
     };
-    let raw = RawLayers {
-        streets: read(&a.streets)?,
-        crossings: read_opt(&a.crossings)?,
-        schools: read(&a.schools)?,
-        homes: read(&a.homes)?,
-        homes_format,
-        catchments: read_opt(&a.catchments)?,
-        preset: match a.preset {
-            PresetArg::Osm => Preset::Osm,
-            PresetArg::Plain => Preset::Plain,
-        },
-        mapping: read_opt(&a.mapping)?,
-        interventions: read_opt(&a.interventions)?,
-    };
-    let mut config = match &a.config {
-        Some(p) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,
-        None => Config::default(),
+    if let Some(text) = read_opt(&a.interventions)? {
+        raw.interventions = Some(text);
+    }
+    let mut config = match (&a.config, project_config) {
+        (Some(p), _) => Config::from_json(&read(p)?).map_err(|e| e.to_string())?,
+        (None, Some(v)) => Config::from_json(&v.to_string()).map_err(|e| e.to_string())?,
+        (None, None) => Config::default(),
     };
     if let Some(r) = &a.rules {
         config.score.rules = match RuleSet::builtin(r) {
@@ -329,6 +396,82 @@ fn run(cli: Cli) -> Result<(), String> {
                 )?;
             }
             print_comparison(&c);
+            Ok(())
+        }
+        Command::Project {
+            action:
+                ProjectAction::New {
+                    layers,
+                    scenarios,
+                    notes,
+                    photos,
+                    out,
+                },
+        } => {
+            let (raw, config) = raw_layers(&layers)?;
+            let mut project = catchwalk::project::Project {
+                layers: catchwalk::project::ProjectLayers {
+                    streets: raw.streets,
+                    crossings: raw.crossings,
+                    schools: raw.schools,
+                    homes: raw.homes,
+                    homes_format: raw.homes_format,
+                    catchments: raw.catchments,
+                    preset: raw.preset,
+                    mapping: raw.mapping,
+                },
+                config: serde_json::to_value(&config).ok(),
+                ..Default::default()
+            };
+            for s in &scenarios {
+                let Some((name, file)) = s.split_once('=') else {
+                    return Err(format!("--add-scenario '{s}': write NAME=FILE"));
+                };
+                let text = read(Path::new(file))?;
+                catchwalk::scenario::read::read_interventions(&text)
+                    .map_err(|e| format!("scenario '{name}': {e}"))?;
+                project.scenarios.push(catchwalk::project::Scenario {
+                    name: name.to_string(),
+                    interventions: text,
+                });
+            }
+            if let Some(n) = &notes {
+                project.notes = catchwalk::project::notes::read_notes_geojson(&read(n)?)
+                    .map_err(|e| e.to_string())?;
+            }
+            for p in &photos {
+                let bytes =
+                    std::fs::read(p).map_err(|e| format!("cannot read {}: {e}", p.display()))?;
+                let name = p
+                    .file_name()
+                    .map(|n| n.to_string_lossy().into_owned())
+                    .unwrap_or_default();
+                let ext = p
+                    .extension()
+                    .map(|e| e.to_string_lossy().to_ascii_lowercase())
+                    .unwrap_or_default();
+                let media_type = match ext.as_str() {
+                    "jpg" | "jpeg" => "image/jpeg",
+                    "png" => "image/png",
+                    "webp" => "image/webp",
+                    _ => "application/octet-stream",
+                };
+                project.photos.push(catchwalk::project::Photo {
+                    name,
+                    media_type: media_type.into(),
+                    bytes,
+                });
+            }
+            let bytes = catchwalk::project::write_project(&project).map_err(|e| e.to_string())?;
+            std::fs::write(&out, bytes)
+                .map_err(|e| format!("cannot write {}: {e}", out.display()))?;
+            say!(
+                "wrote {} ({} scenario(s), {} note(s), {} photo(s))",
+                out.display(),
+                project.scenarios.len(),
+                project.notes.len(),
+                project.photos.len()
+            );
             Ok(())
         }
         Command::Check { layers, out } => {

@@ -94,6 +94,34 @@ impl Project {
     }
 }
 
+impl Project {
+    /// The interventions layer an audit of this project runs with: the named scenario's
+    /// interventions (none without a name), then, with `observations`, the notes' observed
+    /// corrections (`origin: observation`). `None` when there is nothing to apply.
+    pub fn interventions(
+        &self,
+        scenario: Option<&str>,
+        observations: bool,
+    ) -> crate::error::Result<Option<String>> {
+        let mut features = Vec::new();
+        if let Some(name) = scenario {
+            let s = self.scenario(name)?;
+            let v: serde_json::Value =
+                serde_json::from_str(&s.interventions).map_err(|e| crate::error::Error::Parse {
+                    layer: crate::error::LayerName::Interventions,
+                    message: format!("scenario '{name}': {e}"),
+                })?;
+            features.extend(v["features"].as_array().cloned().unwrap_or_default());
+        }
+        if observations {
+            features.extend(notes::observed_features(&self.notes));
+        }
+        Ok((!features.is_empty()).then(|| {
+            serde_json::json!({"type": "FeatureCollection", "features": features}).to_string()
+        }))
+    }
+}
+
 /// Photos travel as base64 text in the page's JSON (the zip keeps them as files).
 mod base64_bytes {
     use base64::Engine;

@@ -110,10 +110,11 @@ pub fn read_notes_geojson(text: &str) -> Result<Vec<Note>> {
     Ok(out)
 }
 
-/// The observed corrections of `notes` as interventions (`origin: observation`), read as an
-/// interventions layer would be: a note's point is the intervention's Point.
-pub fn observed_interventions(notes: &[Note]) -> Result<Vec<Intervention>> {
-    let features: Vec<Value> = notes
+/// The observed corrections of `notes` as interventions-layer features (`origin:
+/// observation`, id `note-<id>`, the note's point as the geometry; a `path` correction carries
+/// its `line`).
+pub fn observed_features(notes: &[Note]) -> Vec<Value> {
+    notes
         .iter()
         .filter_map(|n| {
             let mut props = n.observed.clone()?;
@@ -128,10 +129,14 @@ pub fn observed_interventions(notes: &[Note]) -> Result<Vec<Intervention>> {
             };
             Some(json!({"type": "Feature", "geometry": geometry, "properties": props}))
         })
-        .collect();
-    let mut list = crate::scenario::read::read_interventions(
-        &json!({"type": "FeatureCollection", "features": features}).to_string(),
-    )?;
+        .collect()
+}
+
+/// The observed corrections of `notes` as interventions (`origin: observation`), read as an
+/// interventions layer would be.
+pub fn observed_interventions(notes: &[Note]) -> Result<Vec<Intervention>> {
+    let fc = json!({"type": "FeatureCollection", "features": observed_features(notes)});
+    let mut list = crate::scenario::read::read_interventions(&fc.to_string())?;
     for iv in &mut list {
         iv.origin = Origin::Observation;
     }
