@@ -105,11 +105,14 @@ test('scenario by clicking, comparison, a note with a photo, reload, project fil
   assert.ok(cmp.homes_route_changed.length > 0, 'some routes change');
   const gained = cmp.catchments.reduce((a, c) => a + c.children_gained_safe_route - c.children_lost_safe_route, 0);
   assert.equal(gained, total(after1, 'safe') - total(baseline, 'safe'), 'gained minus lost equals the change in safe-route children');
-  assert.ok(await page.locator('#cmp-table tbody tr').count() >= 1);
+  assert.ok(await page.locator('#cmp-table tbody[data-school]').count() >= 1, 'a changed catchment is listed');
   // A changed home's two routes are drawn.
   await page.locator('#cmp-out .chip').first().click();
   await page.waitForSelector('#home-figures');
   assert.ok(await page.evaluate(() => window.catchwalk.comparisonRoutes()) >= 1, 'the home\'s routes before and after are drawn');
+  await page.click('.tabs button[data-tab="cmp"]');
+  await page.waitForTimeout(400);
+  await shot(page, 'loop-compare-routes-1500.png');
 
   // Undo, then the intervention again: undo gives back the baseline figures exactly.
   n = await audits(page);

@@ -130,9 +130,12 @@ export function comparisonElements(r: NonNullable<Compare['last']>, onHome: ((id
     const good = same || BETTER_UP[k] === null ? '' : (d > 0) === BETTER_UP[k] ? 'better' : 'worse';
     return el('tr', { 'data-figure': k }, el('td', {}, label), el('td', {}, f(b)), el('td', {}, f(a)), el('td', { class: good }, same ? '' : `${d > 0 ? '+' : '−'}${f(Math.abs(d))}`));
   };
+  const same = (x: Comparison['catchments'][number]) => x.children_route_changed === 0 && ROWS.every(([k]) => x.before[k] === x.after[k]);
+  const changed = c.catchments.filter((x) => !same(x));
+  const unchanged = c.catchments.filter(same).map((x) => r.names.get(x.school_id) ?? x.school_id);
   const table = el('table', { class: 'figures cmp', id: 'cmp-table' },
     el('thead', {}, el('tr', {}, el('th', {}, 'Children / figure'), el('th', {}, 'Before'), el('th', {}, 'After'), el('th', {}, 'Change'))),
-    ...c.catchments.map((x) => el('tbody', { 'data-school': x.school_id },
+    ...changed.map((x) => el('tbody', { 'data-school': x.school_id },
       el('tr', { class: 'group' }, el('th', { colspan: '4' }, r.names.get(x.school_id) ?? x.school_id,
         el('span', { class: 'small muted' }, ` · ${fmt.n(x.children_gained_safe_route)} gain, ${fmt.n(x.children_lost_safe_route)} lose a safe route; ${fmt.n(x.children_route_changed)} change route`))),
       ...ROWS.map(([k, l, f]) => row(k, l, x.before[k], x.after[k], f)))));
@@ -152,7 +155,8 @@ export function comparisonElements(r: NonNullable<Compare['last']>, onHome: ((id
       `${r.after} against ${r.before}: `,
       el('strong', {}, `${fmt.n(sum('children_gained_safe_route'))} children gain a safe route`),
       `, ${fmt.n(sum('children_lost_safe_route'))} lose one; the route changes for ${fmt.n(sum('children_route_changed'))} children in ${c.homes_route_changed.length} homes.`),
-    table,
+    changed.length ? table : el('p', { class: 'small' }, 'No catchment’s figures change.'),
+    unchanged.length ? el('p', { class: 'small muted', id: 'cmp-unchanged' }, `Unchanged: ${unchanged.join(', ')}.`) : el('span'),
     homes(c.homes_gained_safe_route, 'Homes gaining a safe route') ?? el('span'),
     homes(c.homes_lost_safe_route, 'Homes losing a safe route') ?? el('span'),
     homes(c.homes_route_changed, 'Homes whose route changed') ?? el('p', { class: 'small muted' }, 'No home’s route changes.'),

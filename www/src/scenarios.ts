@@ -264,7 +264,7 @@ export class Scenarios {
   /** One line describing an intervention. */
   static describe(iv: Intervention): string {
     const p = iv.properties;
-    const parts = [labelOf(p.kind)];
+    const parts = [({ speed: 'speed limit', sidewalk: 'sidewalk', close: 'closed', path: 'new foot path' } as Record<string, string>)[p.kind] ?? labelOf(p.kind)];
     if (p['street']) parts.push(`on ${String(p['street'])}`);
     if (p['side']) parts.push(`(${String(p['side'])} side${p['side'] === 'both' ? 's' : ''})`);
     if (p['speed_kmh']) parts.push(`→ ${String(p['speed_kmh'])} km/h`);
