@@ -237,6 +237,17 @@ test('a laptop screen: the project opened on another computer, scenario panel, c
   await page.locator('#notes-card').scrollIntoViewIfNeeded();
   await page.locator('#note-list li').first().click();
   await shot(page, 'loop-note-1366.png', 'note');
+  // The printable report shows the scenario, the comparison (no home ids: individual homes are
+  // not included) and the notes with their photo.
+  await page.click('#x-report');
+  await page.waitForSelector('#report:not([hidden])');
+  const report = await page.locator('#report-body').innerText();
+  assert.match(report, /Scenario: Signal and slower street/);
+  assert.match(report, /Before and after: Signal and slower street against Existing network/);
+  assert.match(report, /Site-visit notes/);
+  assert.doesNotMatch(report, /H0387/, 'no home id in a report without individual homes');
+  assert.equal(await page.locator('#report-body .report-photos img').count(), 1);
+  await page.click('#report-close');
   // A storage refusal is said, never silent: a write that the browser refuses shows the message.
   await page.evaluate(() => { IDBObjectStore.prototype.put = function () { throw new DOMException('quota', 'QuotaExceededError'); }; });
   await page.fill('#note-text', 'one more line');

@@ -340,6 +340,8 @@ async function display(doc: AuditDoc, fitNow: boolean, t0: number, coreMs: numbe
     document.body.dataset.auditMs = String(Math.round(total));
     document.body.dataset.coreMs = String(Math.round(coreMs));
     document.body.dataset.scenario = scenarios.name();
+    $('scn-badge').textContent = list ? `Scenario: ${scenarios.name()}` : '';
+    $('scn-badge').hidden = !list;
     setStatus(`${doc.summary.homes} homes, ${doc.summary.children} children, ${doc.summary.schools.length} schools, ${doc.summary.network.length_km} km of street${list ? ` · scenario “${scenarios.name()}”, ${scenarios.current().length} interventions` : ''}.`);
     compare.options(scenarios.active);
     compare.run();

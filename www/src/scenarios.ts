@@ -194,7 +194,7 @@ export class Scenarios {
     arm.classList.toggle('tool-on', this.armed);
     $('scn-hint').textContent = !this.armed ? ''
       : k.on === 'crossing' ? 'Click a crossing or a junction (a click mid-street makes a mid-block crossing).'
-        : k.on === 'street' ? `Click the street${k.kind === 'sidewalk' ? ' on the side that gets the sidewalk' : ''}.`
+        : k.on === 'street' ? `Click the street${k.kind === 'sidewalk' ? ' on the side that gets the sidewalk' : ''}: the change applies to the block clicked, between its junctions.`
           : `Click the path's points (${this.path.length} so far; ends join a street at its vertices), then “Finish path”.`;
   }
 
