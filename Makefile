@@ -76,6 +76,7 @@ endif
 
 bench: build
 	$(CARGO) run --release --example bench_tree
+	$(CARGO) run --release --example bench_reaudit
 
 clean-cache:
 	rm -rf $(CACHE)

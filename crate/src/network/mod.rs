@@ -198,7 +198,7 @@ mod crossings;
 mod dangling;
 mod doorstep;
 mod edges;
-mod noding;
+pub(crate) mod noding;
 mod pieces;
 pub mod qa;
 mod snap;

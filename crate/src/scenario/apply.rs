@@ -76,11 +76,112 @@ fn streets_with(
     Ok(found)
 }
 
+/// With a Point, the street change applies only where it is drawn: the block (the piece
+/// between two junctions) of the street nearest the point. The street is cut there into up to
+/// three parts with the same id and feature, as a streets layer holding the three pieces
+/// would be read; returns the index of the block's part. Cutting at junctions keeps the
+/// network's shape: the cuts are junctions already.
+fn cut_out_block(
+    layers: &mut Layers,
+    iv: &Intervention,
+    found: &[usize],
+    p: LonLat,
+    cfg: &NetworkConfig,
+) -> Result<usize> {
+    let nearest = found
+        .iter()
+        .map(|&i| (i, distance_to_line_m(p, &layers.streets[i].line)))
+        .min_by(|a, b| a.1.total_cmp(&b.1))
+        .map(|x| x.0);
+    let Some(i) = nearest else {
+        return Err(Error::input(located(iv), "no street to change"));
+    };
+    let frame = crate::network::attach::frame_over(
+        layers.streets.iter().flat_map(|s| s.line.iter().copied()),
+    )
+    .unwrap_or_else(|| LocalFrame::new([0.0, 0.0]));
+    let tol = if cfg.snap_tolerance_m.is_finite() && cfg.snap_tolerance_m >= 0.0 {
+        cfg.snap_tolerance_m
+    } else {
+        0.0
+    };
+    let noded = crate::network::noding::node_streets(&layers.streets, tol, &frame);
+    let pieces: Vec<&crate::network::Segment> =
+        noded.segments.iter().filter(|s| s.street == i).collect();
+    let mut line: Vec<LonLat> = Vec::new();
+    for &q in &layers.streets[i].line {
+        if line.last() != Some(&q) {
+            line.push(q);
+        }
+    }
+    // Vertex ranges of the pieces along the street's own line.
+    let mut ranges = Vec::with_capacity(pieces.len());
+    let mut at = 0usize;
+    for piece in &pieces {
+        let n = piece.line.len().saturating_sub(1);
+        ranges.push((at, at + n));
+        at += n;
+    }
+    let cannot = || {
+        Error::input(
+            located(iv),
+            format!(
+                "cannot find the block of street '{}' the Point is on (the street folds back                  on itself); give no geometry to change the whole street",
+                layers.streets[i].id
+            ),
+        )
+    };
+    if pieces.is_empty() || at + 1 != line.len() {
+        return Err(cannot());
+    }
+    let (a, b) = pieces
+        .iter()
+        .zip(&ranges)
+        .map(|(piece, r)| (*r, distance_to_line_m(p, &piece.line)))
+        .min_by(|x, y| x.1.total_cmp(&y.1))
+        .map(|x| x.0)
+        .ok_or_else(cannot)?;
+    let (Some(before), Some(block), Some(after)) = (line.get(..=a), line.get(a..=b), line.get(b..))
+    else {
+        return Err(cannot());
+    };
+    let part = |l: &[LonLat]| Street {
+        line: l.to_vec(),
+        ..layers.streets[i].clone()
+    };
+    let mut parts = Vec::new();
+    if a > 0 {
+        parts.push(part(before));
+    }
+    let block_at = i + parts.len();
+    parts.push(part(block));
+    if b + 1 < line.len() {
+        parts.push(part(after));
+    }
+    layers.streets.splice(i..=i, parts);
+    Ok(block_at)
+}
+
+/// The streets a street change applies to: every part of the street, or with a Point only
+/// the block it is drawn on.
+fn targets(
+    layers: &mut Layers,
+    iv: &Intervention,
+    id: &str,
+    cfg: &NetworkConfig,
+) -> Result<Vec<usize>> {
+    let found = streets_with(layers, iv, id, cfg)?;
+    match iv.at {
+        Some(p) => Ok(vec![cut_out_block(layers, iv, &found, p, cfg)?]),
+        None => Ok(found),
+    }
+}
+
 /// The layers with `list` applied, in order. Crossing controls join the crossings layer after
 /// its own points (feature numbers continue its numbering), new paths join the streets layer
 /// after its own features, read as a streets feature `{"class": "path"}` would be. A street
-/// change applies to the whole street feature (all its parts); a Point only locates it and
-/// must lie on it (within `network.crossing_attach_m`).
+/// change without geometry applies to the whole street (all its parts); with a Point (within
+/// `network.crossing_attach_m` of the street) only to the block it is drawn on.
 ///
 /// ```
 /// use catchwalk::config::NetworkConfig;
@@ -116,14 +217,14 @@ pub fn apply_interventions(
                 });
             }
             Change::Speed { street, speed_kmh } => {
-                for i in streets_with(&layers, iv, street, cfg)? {
+                for i in targets(&mut layers, iv, street, cfg)? {
                     let s = &mut layers.streets[i];
                     s.speed_kmh = *speed_kmh;
                     s.speed_source = SpeedSource::Posted;
                 }
             }
             Change::Sidewalk { street, side } => {
-                for i in streets_with(&layers, iv, street, cfg)? {
+                for i in targets(&mut layers, iv, street, cfg)? {
                     let s = &mut layers.streets[i];
                     if matches!(side, SideChoice::Both | SideChoice::Left) {
                         s.left = SideWalk::Present;
@@ -134,7 +235,7 @@ pub fn apply_interventions(
                 }
             }
             Change::Close { street } => {
-                let gone = streets_with(&layers, iv, street, cfg)?;
+                let gone = targets(&mut layers, iv, street, cfg)?;
                 let mut k = 0;
                 layers.streets.retain(|_| {
                     let keep = !gone.contains(&k);
@@ -211,4 +312,82 @@ pub fn overlay(
             applied: list,
         },
     ))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::input::RoadClass;
+    use crate::scenario::Origin;
+
+    /// A street of three blocks (cross streets meet it at its inner vertices).
+    fn three_blocks() -> Layers {
+        let mut l = Layers::default();
+        let main = Street {
+            id: "main".into(),
+            left: SideWalk::Absent,
+            right: SideWalk::Absent,
+            ..Street::new(
+                0,
+                RoadClass::Local,
+                40.0,
+                2,
+                vec![[0.0, 0.0], [0.001, 0.0], [0.002, 0.0], [0.003, 0.0]],
+            )
+        };
+        l.streets.push(main);
+        for (k, x) in [0.001, 0.002].into_iter().enumerate() {
+            l.streets.push(Street::new(
+                k + 1,
+                RoadClass::Local,
+                40.0,
+                2,
+                vec![[x, -0.001], [x, 0.0], [x, 0.001]],
+            ));
+        }
+        l
+    }
+
+    fn sidewalk(at: Option<LonLat>) -> Intervention {
+        Intervention {
+            feature: 0,
+            id: None,
+            kind: "sidewalk".into(),
+            change: Change::Sidewalk {
+                street: "main".into(),
+                side: SideChoice::Left,
+            },
+            at,
+            origin: Origin::Proposal,
+            note: None,
+        }
+    }
+
+    #[test]
+    fn a_point_changes_only_the_block_it_is_drawn_on() {
+        let base = three_blocks();
+        let cfg = NetworkConfig::default();
+        let out = apply_interventions(&base, &[sidewalk(Some([0.0015, 0.00003]))], &cfg)
+            .unwrap_or_default();
+        let main: Vec<&Street> = out.streets.iter().filter(|s| s.id == "main").collect();
+        assert_eq!(main.len(), 3);
+        let lefts: Vec<SideWalk> = main.iter().map(|s| s.left).collect();
+        assert_eq!(
+            lefts,
+            [SideWalk::Absent, SideWalk::Present, SideWalk::Absent]
+        );
+        assert_eq!(main[1].line, vec![[0.001, 0.0], [0.002, 0.0]]);
+        // Without geometry: the whole street.
+        let out = apply_interventions(&base, &[sidewalk(None)], &cfg).unwrap_or_default();
+        assert!(out
+            .streets
+            .iter()
+            .filter(|s| s.id == "main")
+            .all(|s| s.left == SideWalk::Present));
+        assert_eq!(
+            base.streets[0].left,
+            SideWalk::Absent,
+            "the input is untouched"
+        );
+    }
 }

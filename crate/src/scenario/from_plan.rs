@@ -53,7 +53,8 @@ fn control_point(graph: &PedGraph, edge: u32, up: Upgrade) -> Option<LonLat> {
 }
 
 /// The plan's upgrades as a GeoJSON FeatureCollection of interventions (`origin: plan`, the
-/// rank and the children gained kept as properties), in rank order.
+/// rank and the children gained kept as properties), in rank order. Street-wide upgrades have
+/// no geometry (a Point would change only the block it is on).
 ///
 /// ```
 /// use catchwalk::score::plan::Plan;
@@ -80,7 +81,6 @@ pub fn plan_interventions(out: &AuditOutput, plan: &Plan) -> Value {
                 "children_gained": s.children_gained,
                 "note": format!("upgrade planner, rank {}: {} on {}", s.rank, s.upgrade.as_str(), s.street),
             });
-            let on_street = seg.line.get(seg.line.len() / 2).copied();
             let (kind, at) = match s.upgrade {
                 Upgrade::Signal | Upgrade::Guard | Upgrade::Refuge => {
                     let kind = match s.upgrade {
@@ -93,7 +93,7 @@ pub fn plan_interventions(out: &AuditOutput, plan: &Plan) -> Value {
                 Upgrade::SpeedReduction => {
                     props["street"] = json!(street.id);
                     props["speed_kmh"] = json!(street.speed_kmh.min(out.config.score.plan.speed_target_kmh));
-                    ("speed", on_street)
+                    ("speed", None) // the planner changes the whole street: no Point
                 }
                 Upgrade::Sidewalk => {
                     let open = |w: SideWalk| matches!(w, SideWalk::Absent | SideWalk::Unknown);
@@ -104,7 +104,7 @@ pub fn plan_interventions(out: &AuditOutput, plan: &Plan) -> Value {
                     };
                     props["street"] = json!(street.id);
                     props["side"] = json!(side);
-                    ("sidewalk", on_street)
+                    ("sidewalk", None)
                 }
             };
             props["kind"] = json!(kind);
