@@ -250,6 +250,7 @@ test('a laptop screen: the project opened on another computer, scenario panel, c
   await page.click('#report-close');
   // A storage refusal is said, never silent: a write that the browser refuses shows the message.
   await page.evaluate(() => { IDBObjectStore.prototype.put = function () { throw new DOMException('quota', 'QuotaExceededError'); }; });
+  await page.click('.tabs button[data-tab="note"]');
   await page.fill('#note-text', 'one more line');
   await page.waitForSelector('#prj-error:not([hidden])');
   assert.match(await page.locator('#prj-error').innerText(), /storage for this page is full/);
