@@ -254,6 +254,7 @@ test('a laptop screen: the project opened on another computer, scenario panel, c
   await page.fill('#note-text', 'one more line');
   await page.waitForSelector('#prj-error:not([hidden])');
   assert.match(await page.locator('#prj-error').innerText(), /storage for this page is full/);
+  assert.match(await page.locator('#prj-saved').innerText(), /later changes are not kept/);
   await page.locator('#project-card').scrollIntoViewIfNeeded();
   await shot(page, 'loop-storage-refused-1366.png');
   assert.deepEqual(leaks, []);

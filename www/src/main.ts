@@ -96,6 +96,8 @@ const autosave = new Autosave(
     document.body.dataset.saved = at.toISOString();
   },
   (message) => {
+    const last = document.body.dataset.saved;
+    $('prj-saved').textContent = last ? `Last saved at ${new Date(last).toLocaleTimeString('en-GB')}; later changes are not kept in this browser.` : 'Not kept in this browser.';
     const e = $('prj-error');
     e.textContent = message;
     e.hidden = false;
