@@ -170,6 +170,15 @@ test('scenario by clicking, comparison, a note with a photo, reload, project fil
   await savedAfter(page, t);
   await shot(page, 'loop-note-1500.png', 'note');
 
+  // Notes export as GeoJSON Points in the project file's notes form.
+  const [notesDl] = await Promise.all([page.waitForEvent('download'), page.click('#note-export')]);
+  const notesFile = join(tmp, 'notes.geojson');
+  await notesDl.saveAs(notesFile);
+  const notesFc = JSON.parse(readFileSync(notesFile, 'utf8'));
+  assert.equal(notesFc.features.length, 1);
+  assert.equal(notesFc.features[0].geometry.type, 'Point');
+  assert.deepEqual(Object.keys(notesFc.features[0].properties).sort(), ['checklist', 'id', 'observed', 'photos', 'target', 'text', 'visited']);
+
   // Reload: the scenario and the note come back, with the same figures.
   const before = await state(page);
   const beforeFigures = await figures(page);
@@ -237,6 +246,27 @@ test('a laptop screen: the project opened on another computer, scenario panel, c
   await page.locator('#notes-card').scrollIntoViewIfNeeded();
   await page.locator('#note-list li').first().click();
   await shot(page, 'loop-note-1366.png', 'note');
+  // A note on the signal's junction records a guard seen there; taken into the scenario it is
+  // audited as an intervention marked as observed.
+  const signalAt = (await state(page)).scenarios[0].interventions[0].geometry.coordinates;
+  await goTo(page, signalAt, 18);
+  await page.click('#note-arm');
+  await clickMap(page);
+  await page.waitForSelector('#note-observed');
+  await page.selectOption('#note-observed', 'guard');
+  let k = await audits(page);
+  await page.click('#note-take');
+  await waitAudits(page, k + 1);
+  assert.equal(await page.locator('#scn-list li.iv.observation').count(), 1);
+  assert.match(await page.locator('#scn-list li.iv.observation').innerText(), /observed on site/);
+  const obs = (await state(page)).scenarios[0].interventions.at(-1).properties;
+  assert.equal(obs.origin, 'observation');
+  assert.match(obs.id, /^note-/);
+  await shot(page, 'loop-observed-1366.png', 'note');
+  k = await audits(page);
+  await page.click('#scn-undo');
+  await waitAudits(page, k + 1);
+
   // The printable report shows the scenario, the comparison (no home ids: individual homes are
   // not included) and the notes with their photo.
   await page.click('#x-report');

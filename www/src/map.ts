@@ -499,7 +499,7 @@ function overlayLayers(m: MlMap) {
   m.addLayer({ id: 'edits-pt', type: 'circle', source: 'edits', filter: ex(['==', ['geometry-type'], 'Point']),
     paint: { 'circle-radius': 8, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': tint, 'circle-stroke-width': 3 } });
   m.addLayer({ id: 'edits-label', type: 'symbol', source: 'edits', filter: ex(['==', ['geometry-type'], 'Point']),
-    layout: { 'text-field': ['get', 'label'], 'text-font': LABEL_FONT, 'text-size': 11, 'text-offset': [0, 1.5], 'text-allow-overlap': true },
+    layout: { 'text-field': ['get', 'label'], 'text-font': LABEL_FONT, 'text-size': 11, 'text-variable-anchor': ['top', 'bottom', 'left', 'right', 'top-left', 'bottom-right'], 'text-radial-offset': 1.1, 'text-allow-overlap': false, 'text-ignore-placement': false },
     paint: { 'text-color': tint, 'text-halo-color': '#fffdf8', 'text-halo-width': 1.5 } });
   m.addLayer({ id: 'notes-pt', type: 'circle', source: 'notes',
     paint: { 'circle-radius': 7, 'circle-color': NOTE_COLOR, 'circle-stroke-color': '#1e2a2b', 'circle-stroke-width': ex(['case', ['get', 'open'], 3, 1.5]) } });
