@@ -27,6 +27,7 @@ export interface Progress {
 export interface AuditResult {
   docText: string;
   ms: number;
+  bytes?: Uint8Array;
 }
 
 function base64ToBytes(b64: string): Uint8Array {
@@ -102,7 +103,7 @@ export class Engine {
     if (m.type === 'progress') p.onProgress({ stage: m.stage, done: m.done, total: m.total });
     else if (m.type === 'done') {
       this.pending.delete(m.id);
-      p.resolve({ docText: m.doc, ms: m.ms });
+      p.resolve({ docText: m.doc, ms: m.ms, bytes: m.bytes });
     } else if (m.type === 'failed') {
       this.pending.delete(m.id);
       // A trap inside the core leaves its memory in an unknown state: start a fresh worker.
@@ -134,6 +135,28 @@ export class Engine {
     const bytes = await file.arrayBuffer();
     const r = await this.send((id) => ({ type: 'convert', id, layer, name: file.name, bytes, crs }), () => {});
     return r.docText;
+  }
+
+  /** Re-audits the last audit with a scenario's interventions (GeoJSON text; '' for none). */
+  reaudit(interventions: string, onProgress: (p: Progress) => void): Promise<AuditResult> {
+    return this.send((id) => ({ type: 'reaudit', id, interventions }), onProgress);
+  }
+
+  /** The core's comparison of two audits' homes.csv (before, after), as JSON text. */
+  compare(before: string, after: string): Promise<AuditResult> {
+    return this.send((id) => ({ type: 'compare', id, before, after }), () => {});
+  }
+
+  /** The project (the core's Project as JSON) as project-file bytes. */
+  async writeProject(project: string): Promise<Uint8Array> {
+    const r = await this.send((id) => ({ type: 'write_project', id, project }), () => {});
+    if (!r.bytes) throw new Error('the core wrote no project file');
+    return r.bytes;
+  }
+
+  /** A project file's bytes read back to the core's Project as JSON. */
+  async readProject(bytes: Uint8Array): Promise<string> {
+    return (await this.send((id) => ({ type: 'read_project', id, bytes }), () => {})).docText;
   }
 
   private send(make: (id: number) => ToWorker, onProgress: (p: Progress) => void): Promise<AuditResult> {

@@ -14,6 +14,12 @@ import { streetNames } from './labels';
 import { isBinary, placeFile, type Placement } from './placement';
 import { Settings } from './settings';
 import { CatchmentTable } from './table';
+import { Autosave } from './autosave';
+import { Compare, comparisonElements, type Comparison } from './compare';
+import { Notes, photoUrl } from './notes';
+import { ProjectCard } from './projectcard';
+import { interventionsText, type Intervention, type PageState } from './project';
+import { Scenarios } from './scenarios';
 import { LAYER_KEYS, type AuditDoc, type Feature, type FeatureCollection, type LayerFile, type LayerKey, type Message } from './types';
 
 /** An error's message; the core's errors come as `{message, at}` JSON. */
@@ -47,11 +53,90 @@ let running = false;
 let again = false;
 let audits = 0;
 
-const map = new AuditMap($('map'), { onHome: (id) => select('home', id), onCatchment: (id) => select('catchment', id) });
+const map = new AuditMap($('map'), { onHome: (id) => select('home', id), onCatchment: (id) => select('catchment', id), onNote: (id) => notes.show(id) });
 const table = new CatchmentTable($('table'), (id) => select('catchment', id));
 const settings = new Settings($<HTMLFormElement>('settings'), () => schedule());
 const findBox = new FindBox($<HTMLInputElement>('find'), $('find-list'), (f) => found(f));
 findBox.setIndex([]);
+
+// ---------- scenarios, comparison, notes, project ----------
+
+/** Audits by interventions text ('' is the existing network), as the core returned them. */
+const views = new Map<string, View>();
+const VIEW_CACHE = 4;
+function keep(key: string, v: View) {
+  views.delete(key);
+  views.set(key, v);
+  while (views.size > VIEW_CACHE) {
+    const old = [...views.keys()].find((k) => k !== '' && k !== key);
+    if (old === undefined) break;
+    views.delete(old);
+  }
+}
+const scenarios = new Scenarios(map, { changed: () => { runScenario(); changed(); }, view: () => view, status: setStatus });
+const notes = new Notes(map, {
+  changed: () => changed(),
+  view: () => view,
+  status: setStatus,
+  takeMap: () => scenarios.disarm(),
+  observe: (iv: Intervention) => scenarios.push(iv),
+  showTab: () => showTab('note'),
+});
+const compare = new Compare(map, {
+  auditOf: async (i: number) => {
+    const key = i < 0 ? '' : interventionsText(scenarios.list[i]?.interventions);
+    const have = views.get(key);
+    if (have) return have;
+    const r = await engine.reaudit(key, () => {});
+    const v = buildView(JSON.parse(r.docText) as AuditDoc);
+    keep(key, v);
+    return v;
+  },
+  compare: async (b: string, a: string) => JSON.parse((await engine.compare(b, a)).docText) as Comparison,
+  options: () => [{ value: -1, label: 'Existing network' }, ...scenarios.list.map((x, i) => ({ value: i, label: x.name }))],
+  selectHome: (id: string) => select('home', id),
+});
+const autosave = new Autosave(
+  (at) => {
+    $('prj-saved').textContent = `Saved on this computer at ${at.toLocaleTimeString('en-GB')}.`;
+    $('prj-error').hidden = true;
+    document.body.dataset.saved = at.toISOString();
+  },
+  (message) => {
+    const last = document.body.dataset.saved;
+    $('prj-saved').textContent = last ? `Last saved at ${new Date(last).toLocaleTimeString('en-GB')}; later changes are not kept in this browser.` : 'Not kept in this browser.';
+    const e = $('prj-error');
+    e.textContent = message;
+    e.hidden = false;
+    document.body.dataset.saveFailed = String(Number(document.body.dataset.saveFailed ?? 0) + 1);
+  });
+/** Nothing is saved until the page has its state (restored or loaded): a start never overwrites the last save. */
+let restored = false;
+function pageState(): PageState {
+  return {
+    files: { ...files },
+    preset: ($('preset') as HTMLSelectElement).value,
+    config: settings.json(),
+    scenarios: scenarios.list,
+    active: scenarios.active,
+    notes: notes.notes,
+    photos: notes.photos,
+  };
+}
+function changed() {
+  if (restored) autosave.schedule(pageState);
+}
+async function restore(st: PageState) {
+  for (const k of LAYER_KEYS) setFile(k, st.files[k] ?? null);
+  ($('preset') as HTMLSelectElement).value = st.preset || 'plain';
+  if (st.config) settings.load(st.config);
+  scenarios.set(st.scenarios ?? [], st.active ?? -1);
+  notes.set(st.notes ?? [], st.photos ?? []);
+  selected = null;
+  restored = true;
+  if (ready()) await runAudit(true);
+}
+const projectCard = new ProjectCard(engine, pageState, async (st) => { await restore(st); changed(); }, autosave, setStatus);
 
 // ---------- layers ----------
 
@@ -74,6 +159,7 @@ function setFile(key: LayerKey, f: LayerFile | null, why: Placement | null = nul
   else placed.delete(key);
   framePending = true;
   renderLayerList();
+  changed();
 }
 
 /** Moves a loaded file to another layer; a file already there takes its place. */
@@ -133,6 +219,8 @@ async function loadDemo() {
   setFile('mapping', null);
   ($('preset') as HTMLSelectElement).value = 'plain';
   selected = null;
+  restored = true;
+  changed();
   await runAudit(true);
 }
 
@@ -140,6 +228,7 @@ async function loadDemo() {
 
 let timer = 0;
 function schedule() {
+  changed();
   clearTimeout(timer);
   timer = window.setTimeout(() => runAudit(false), 150);
 }
@@ -175,11 +264,73 @@ async function runAudit(fit: boolean) {
       ($('progress-fill') as HTMLElement).style.width = `${Math.round(((i + share) / order.length) * 100)}%`;
       $('progress-text').textContent = `${p.stage}${p.total > 1 ? ` ${p.done} / ${p.total}` : ''}`;
     });
-    const doc = JSON.parse(res.docText) as AuditDoc;
-    $('mapnote').hidden = true;
+    let doc = JSON.parse(res.docText) as AuditDoc;
+    views.clear();
+    keep('', buildView(doc));
+    let coreMs = res.ms;
+    const list = interventionsText(scenarios.current());
+    if (list) {
+      $('progress-text').textContent = `scenario “${scenarios.name()}”`;
+      const r2 = await engine.reaudit(list, () => {});
+      doc = JSON.parse(r2.docText) as AuditDoc;
+      coreMs += r2.ms;
+    }
     $('plan-out').replaceChildren();
+    await display(doc, fitNow, t0, coreMs, list);
+    setState('done');
+  } catch (e) {
+    failed(e, frame);
+  } finally {
+    running = false;
+    bar.hidden = true;
+    if (again) { again = false; schedule(); }
+  }
+}
+
+/** Re-audits the scenario shown from the last audit (only the schools it touches re-route). */
+async function runScenario() {
+  if (!view) return;
+  if (running) { again = true; return; }
+  running = true;
+  setState('running');
+  const list = interventionsText(scenarios.current());
+  try {
+    const t0 = performance.now();
+    const cached = views.get(list);
+    let doc: AuditDoc;
+    let coreMs = 0;
+    if (cached) doc = cached.doc;
+    else {
+      const r = await engine.reaudit(list, () => {});
+      doc = JSON.parse(r.docText) as AuditDoc;
+      coreMs = r.ms;
+      const re = doc['reaudit'] as { core_ms?: number; schools_rerouted?: number; schools?: number; full?: boolean } | undefined;
+      if (re) {
+        document.body.dataset.reauditMs = String(re.core_ms ?? '');
+        $('scn-time').textContent = `Re-audit: ${Math.round(re.core_ms ?? r.ms)} ms in the core, ${re.schools_rerouted ?? '?'} of ${re.schools ?? '?'} schools re-routed${re.full ? ' (a full audit: the network changed)' : ''}.`;
+      }
+    }
+    await display(doc, false, t0, coreMs, list);
+    setState('done');
+  } catch (e) {
+    const msg = (e as Error).message;
+    // A fresh worker (after a cancel or a crash) holds no audit to start from.
+    if (/run an audit before a re-audit/.test(msg)) { running = false; return runAudit(false); }
+    failed(e, false);
+  } finally {
+    running = false;
+    $('progress').hidden = true;
+    if (again) { again = false; schedule(); }
+  }
+}
+
+/** Shows one audit (the baseline or a scenario's) in the map, panels and charts. */
+async function display(doc: AuditDoc, fitNow: boolean, t0: number, coreMs: number, list: string) {
+  {
+    $('mapnote').hidden = true;
     const tParsed = performance.now();
-    view = buildView(doc);
+    view = views.get(list)?.doc === doc ? views.get(list) as View : buildView(doc);
+    keep(list, view);
     await map.show(view, layerJson('catchments'), fitNow);
     const names = streetNames(layerJson('streets'), layerJson('mapping'));
     await map.setStreetNames(names);
@@ -196,12 +347,20 @@ async function runAudit(fit: boolean) {
     const total = performance.now() - t0;
     audits++;
     document.body.dataset.audits = String(audits);
-    $('audit-time').textContent = `Last audit: ${Math.round(total)} ms in all (core ${Math.round(res.ms)} ms, page ${Math.round(performance.now() - tParsed)} ms).`;
+    $('audit-time').textContent = `Last audit: ${Math.round(total)} ms in all (core ${Math.round(coreMs)} ms, page ${Math.round(performance.now() - tParsed)} ms).`;
     document.body.dataset.auditMs = String(Math.round(total));
-    document.body.dataset.coreMs = String(Math.round(res.ms));
-    setStatus(`${doc.summary.homes} homes, ${doc.summary.children} children, ${doc.summary.schools.length} schools, ${doc.summary.network.length_km} km of street.`);
-    setState('done');
-  } catch (e) {
+    document.body.dataset.coreMs = String(Math.round(coreMs));
+    document.body.dataset.scenario = scenarios.name();
+    $('scn-badge').textContent = list ? `Scenario: ${scenarios.name()}` : '';
+    $('scn-badge').hidden = !list;
+    setStatus(`${doc.summary.homes} homes, ${doc.summary.children} children, ${doc.summary.schools.length} schools, ${doc.summary.network.length_km} km of street${list ? ` · scenario “${scenarios.name()}”, ${scenarios.current().length} interventions` : ''}.`);
+    compare.options(scenarios.active);
+    compare.run();
+  }
+}
+
+function failed(e: unknown, frame: boolean) {
+  {
     const msg = (e as Error).message;
     if (msg === 'cancelled') { framePending = framePending || frame; setStatus('Audit cancelled.'); setState('cancelled'); }
     else {
@@ -218,10 +377,6 @@ async function runAudit(fit: boolean) {
       document.body.dataset.failures = String(Number(document.body.dataset.failures ?? 0) + 1);
       setState('failed');
     }
-  } finally {
-    running = false;
-    bar.hidden = true;
-    if (again) { again = false; schedule(); }
   }
 }
 
@@ -337,7 +492,7 @@ function reselect() {
 // ---------- upgrade planner ----------
 
 interface PlanStep { rank: number; upgrade: string; edge: number; street: string; children_gained: number; risk_reduction: number; safe_children_after: number }
-interface PlanDoc { plan: { steps: PlanStep[]; safe_children_before: number; safe_children_after: number; children_routed: number }; caution?: string }
+interface PlanDoc { plan: { steps: PlanStep[]; safe_children_before: number; safe_children_after: number; children_routed: number }; caution?: string; interventions?: FeatureCollection }
 
 function layersJson(): string {
   return JSON.stringify({
@@ -378,6 +533,12 @@ async function runPlan() {
         : el('p', { class: 'small muted' }, 'No upgrade in the catalogue gives another child a safe route.'),
       el('p', { class: 'small muted' }, 'Candidates to study on site, not designs: each needs an engineering study and local approval.'),
     );
+    const ivs = (doc.interventions?.features ?? []) as Intervention[];
+    if (ivs.length) {
+      const b = el('button', { type: 'button', id: 'plan-scenario' }, 'Make this plan a scenario');
+      b.addEventListener('click', () => scenarios.add(scenarios.freshName(`Plan of ${ivs.length}`), ivs.map((f) => ({ ...f, properties: { ...f.properties } }))));
+      out.append(b);
+    }
   } catch (e) {
     let msg = (e as Error).message;
     try { msg = (JSON.parse(msg) as Message).message; } catch { /* plain text */ }
@@ -456,9 +617,31 @@ async function printReport() {
   const fl: Record<string, string> = {};
   for (const k of LAYER_KEYS) if (files[k]) fl[k] = files[k]?.name ?? '';
   buildReport($('report-body'), { view, scope, mapImage, charts: chartImages(), files: fl, settings: settings.json(), caution: engine.caution || view.doc.summary.caution, individual });
+  $('report-body').append(...reportExtras(individual));
   $('report').hidden = false;
   $('report').scrollTop = 0;
   document.body.classList.add('reporting');
+}
+/** The report's scenario, comparison and notes sections. */
+function reportExtras(individual: boolean): HTMLElement[] {
+  const out: HTMLElement[] = [];
+  if (scenarios.active >= 0) {
+    out.push(el('h2', {}, `Scenario: ${scenarios.name()}`), el('p', { class: 'small' }, 'The figures above are this scenario’s: the existing network with these interventions, audited by the same core.'),
+      el('ol', {}, ...scenarios.current().map((iv) => el('li', {}, Scenarios.describe(iv), iv.properties['origin'] === 'observation' ? ' (observed on site)' : iv.properties['origin'] === 'plan' ? ' (from the upgrade planner)' : ''))));
+  }
+  if (compare.last) {
+    const last = individual ? compare.last : { ...compare.last, comparison: { ...compare.last.comparison, homes_route_changed: [], homes_gained_safe_route: [], homes_lost_safe_route: [] } };
+    out.push(el('h2', {}, `Before and after: ${compare.last.after} against ${compare.last.before}`), ...comparisonElements(last, null).filter((e) => e.tagName !== 'SPAN'));
+  }
+  if (notes.notes.length) {
+    out.push(el('h2', {}, 'Site-visit notes'), el('ol', { class: 'report-notes' }, ...notes.notes.map((n) => el('li', {},
+      el('strong', {}, Notes.where(n)), n.visited ? ` · visited ${n.visited.replace('T', ' ')}` : '',
+      el('div', {}, n.text),
+      el('div', { class: 'small' }, Object.entries(n.checklist).filter(([, v]) => v !== 'not_checked' && v !== null).map(([k, v]) => `${k.replace(/_/g, ' ')}: ${String(v)}`).join(' · ')),
+      n.observed ? el('div', { class: 'small' }, `Observed correction: ${String(n.observed['kind']).replace(/_/g, ' ')}`) : null,
+      el('div', { class: 'report-photos' }, ...n.photos.map((name) => notes.photos.find((p) => p.name === name)).filter((p) => !!p).map((p) => el('img', { src: photoUrl(p as NonNullable<typeof p>), alt: `photo ${p?.name}` })))))));
+  }
+  return out;
 }
 $('report-print').addEventListener('click', () => window.print());
 $('report-close').addEventListener('click', () => { $('report').hidden = true; document.body.classList.remove('reporting'); });
@@ -558,6 +741,13 @@ $('basemap-clear').addEventListener('click', () => { basemapInput.value = ''; lo
   select,
   homes: () => view?.homes.map((h) => ({ id: h.id, at: h.at, status: h.status, schoolId: h.schoolId })) ?? [],
   catchmentsCsv: () => view && catchmentsCsv(view),
+  state: () => JSON.parse(JSON.stringify(pageState())) as PageState,
+  view: () => view && { catchments: view.catchments, summary: view.doc.summary, reaudit: view.doc['reaudit'] ?? null, homesCsv: view.doc.homes_csv },
+  hotspots: () => view?.hotspots.slice(0, 20).map((h) => ({ properties: h.properties, geometry: h.geometry })) ?? [],
+  comparison: () => compare.last?.comparison ?? null,
+  comparisonRoutes: () => compare.drawn,
+  flushSave: () => autosave.flush(),
+  project: projectCard,
   download,
 };
 
@@ -566,10 +756,18 @@ renderLegend();
 // On a small screen the legend starts folded, so the town is not under it on first view.
 if ($('map').clientWidth < 900) $('legend').classList.add('folded');
 setState('starting');
-engine.start().then(() => {
+engine.start().then(async () => {
   settings.init(engine.defaultConfig, engine.ruleSets, engine.configBounds);
   setState('idle');
-  if (typeof CATCHWALK_AUTODEMO !== 'undefined' && CATCHWALK_AUTODEMO) loadDemo();
+  const saved = await autosave.load();
+  if (saved) {
+    $('prj-saved').textContent = `Restored the project saved on this computer at ${new Date(saved.savedAt).toLocaleString('en-GB')}.`;
+    await restore(saved.state);
+  } else {
+    restored = true;
+    if (typeof CATCHWALK_AUTODEMO !== 'undefined' && CATCHWALK_AUTODEMO) await loadDemo();
+  }
+  document.body.dataset.restored = saved ? 'yes' : 'no';
 }).catch((e) => {
   setStatus(`The audit core could not start: ${(e as Error).message}`);
   setState('failed');

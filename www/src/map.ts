@@ -11,6 +11,11 @@ import {
   QA_COLOR,
   ROUTE_STYLE,
   SPEED_BANDS,
+  CMP_AFTER,
+  CMP_BEFORE,
+  EDIT_COLOR,
+  NOTE_COLOR,
+  OBSERVED_COLOR,
   deficitColor,
   deviceImage,
 } from './palette';
@@ -29,12 +34,23 @@ const ex = (e: unknown) => e as maplibregl.ExpressionSpecification;
 export interface MapEvents {
   onHome: (id: string) => void;
   onCatchment: (schoolId: string) => void;
+  onNote?: (id: string) => void;
+}
+
+/** What a click in an editing mode landed on (scenarios.ts, notes.ts decide what it means). */
+export interface Pick {
+  at: [number, number];
+  crossing: { id: string; at: [number, number] } | null;
+  /** The noded segment (its index in the centrelines) under the click, if any. */
+  segment: number | null;
 }
 
 export class AuditMap {
   map: MlMap;
   private loaded: Promise<void>;
   private schoolMarkers: maplibregl.Marker[] = [];
+  /** Set while a scenario or note tool is armed: clicks go to it instead of the selection. */
+  onPick: ((p: Pick) => void) | null = null;
 
   constructor(container: HTMLElement, private events: MapEvents) {
     registerGlyphs();
@@ -63,7 +79,7 @@ export class AuditMap {
       const { data } = deviceImage(d.key, 40);
       m.addImage(`dev-${d.key}`, data, { pixelRatio: 2 });
     }
-    for (const id of ['catchments', 'streets', 'street-names', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home', 'found'])
+    for (const id of ['catchments', 'streets', 'street-names', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home', 'found', 'edits', 'notes', 'cmp-routes'])
       m.addSource(id, { type: 'geojson', data: data(empty()) });
     m.addSource('homes', {
       type: 'geojson',
@@ -241,7 +257,21 @@ export class AuditMap {
     });
     addCrashLayer(m, data);
 
+    overlayLayers(m);
     m.on('click', (e) => {
+      if (this.onPick) {
+        const box: [maplibregl.PointLike, maplibregl.PointLike] = [[e.point.x - 8, e.point.y - 8], [e.point.x + 8, e.point.y + 8]];
+        const cr = m.queryRenderedFeatures(box, { layers: ['crossings'] })[0];
+        const st = m.queryRenderedFeatures(box, { layers: ['streets', 'paths'] })[0];
+        const crAt = (cr?.geometry as unknown as { coordinates?: [number, number] } | undefined)?.coordinates;
+        return this.onPick({
+          at: [e.lngLat.lng, e.lngLat.lat],
+          crossing: cr && crAt ? { id: String(cr.properties.id), at: crAt } : null,
+          segment: st && st.properties.segment !== undefined ? Number(st.properties.segment) : null,
+        });
+      }
+      const note = m.queryRenderedFeatures(e.point, { layers: ['notes-pt'] })[0];
+      if (note && this.events.onNote) return this.events.onNote(String(note.properties.id));
       const spot = m.queryRenderedFeatures(e.point, { layers: ['crashes', 'hotspots', 'crossings', 'qa'] })[0];
       if (spot) {
         new maplibregl.Popup({ closeButton: true, maxWidth: '260px' }).setLngLat(e.lngLat).setDOMContent(popupContent(spot.layer.id, spot.properties)).addTo(m);
@@ -260,7 +290,7 @@ export class AuditMap {
       const c = hit.find((f) => f.layer.id === 'catchments-fill');
       if (c && c.properties.school_id !== undefined) this.events.onCatchment(String(c.properties.school_id));
     });
-    for (const id of ['homes-pt', 'homes-cluster', 'catchments-fill', 'hotspots', 'crossings', 'qa']) {
+    for (const id of ['homes-pt', 'homes-cluster', 'catchments-fill', 'hotspots', 'crossings', 'qa', 'notes-pt']) {
       m.on('mouseenter', id, () => (m.getCanvas().style.cursor = 'pointer'));
       m.on('mouseleave', id, () => (m.getCanvas().style.cursor = ''));
     }
@@ -373,6 +403,24 @@ export class AuditMap {
     });
   }
 
+  /** A scenario's interventions and the site-visit notes, drawn over the audit. */
+  async setOverlay(edits: FeatureCollection | null, notes: FeatureCollection | null) {
+    await this.loaded;
+    if (edits) this.set('edits', edits);
+    if (notes) this.set('notes', notes);
+  }
+
+  /** A comparison's routes: `kind` 'before' or 'after' on each feature. */
+  showComparison(routes: Feature[]) {
+    this.set('cmp-routes', { type: 'FeatureCollection', features: routes });
+  }
+
+  /** The crosshair while a tool is armed. */
+  armed(on: boolean) {
+    this.map.getCanvas().style.cursor = on ? 'crosshair' : '';
+    this.map.getContainer().classList.toggle('armed', on);
+  }
+
   /** Room on the left for the legend when it is open, so fitted features are not under it. */
   private padding(extra: number) {
     const legend = document.getElementById('legend');
@@ -440,6 +488,26 @@ export class AuditMap {
 
   /** The last report image's scale bar: the metres it stands for and its length in CSS pixels. */
   lastScale = { metres: 0, px: 0 };
+}
+
+/** Layers for the comparison's routes, the scenario's interventions and the notes. */
+function overlayLayers(m: MlMap) {
+  m.addLayer({ id: 'cmp-before', type: 'line', source: 'cmp-routes', filter: ex(['==', ['get', 'kind'], 'before']),
+    layout: { 'line-cap': 'round', 'line-join': 'round' }, paint: { 'line-color': CMP_BEFORE, 'line-width': 7, 'line-opacity': 0.75 } });
+  m.addLayer({ id: 'cmp-after', type: 'line', source: 'cmp-routes', filter: ex(['==', ['get', 'kind'], 'after']),
+    layout: { 'line-cap': 'round', 'line-join': 'round' }, paint: { 'line-color': CMP_AFTER, 'line-width': 3.5, 'line-dasharray': [2, 1.2] } });
+  const tint = ex(['case', ['==', ['get', 'origin'], 'observation'], OBSERVED_COLOR, EDIT_COLOR]);
+  m.addLayer({ id: 'edits-line', type: 'line', source: 'edits', filter: ex(['!=', ['geometry-type'], 'Point']),
+    layout: { 'line-cap': 'round' }, paint: { 'line-color': tint, 'line-width': 5, 'line-opacity': 0.85 } });
+  m.addLayer({ id: 'edits-pt', type: 'circle', source: 'edits', filter: ex(['==', ['geometry-type'], 'Point']),
+    paint: { 'circle-radius': 8, 'circle-color': 'rgba(0,0,0,0)', 'circle-stroke-color': tint, 'circle-stroke-width': 3 } });
+  m.addLayer({ id: 'edits-label', type: 'symbol', source: 'edits', filter: ex(['==', ['geometry-type'], 'Point']),
+    layout: { 'text-field': ['get', 'label'], 'text-font': LABEL_FONT, 'text-size': 11, 'text-variable-anchor': ['top', 'bottom', 'left', 'right', 'top-left', 'bottom-right'], 'text-radial-offset': 1.1, 'text-allow-overlap': false, 'text-ignore-placement': false },
+    paint: { 'text-color': tint, 'text-halo-color': '#fffdf8', 'text-halo-width': 1.5 } });
+  m.addLayer({ id: 'notes-pt', type: 'circle', source: 'notes',
+    paint: { 'circle-radius': 7, 'circle-color': NOTE_COLOR, 'circle-stroke-color': '#1e2a2b', 'circle-stroke-width': ex(['case', ['get', 'open'], 3, 1.5]) } });
+  m.addLayer({ id: 'notes-label', type: 'symbol', source: 'notes',
+    layout: { 'text-field': ['get', 'label'], 'text-font': LABEL_FONT, 'text-size': 10, 'text-allow-overlap': true }, paint: { 'text-color': '#1e2a2b' } });
 }
 
 /** What a popup says about a hotspot, a crossing point or a network check. */

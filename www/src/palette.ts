@@ -175,3 +175,12 @@ export function deficitColor(d: number | null): string {
   }
   return 'rgb(196,72,52)';
 }
+
+/** A scenario's interventions on the map; a correction observed on site in its own colour. */
+export const EDIT_COLOR = '#6b3fa0';
+export const OBSERVED_COLOR = '#c2571a';
+/** Site-visit notes. */
+export const NOTE_COLOR = '#f2c14e';
+/** A comparison's routes: before (wide, pale) under after (narrow, dashed). */
+export const CMP_BEFORE = '#9aa3a6';
+export const CMP_AFTER = '#1f7a5a';

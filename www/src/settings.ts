@@ -64,6 +64,12 @@ export class Settings {
     this.render();
   }
 
+  /** Takes a saved config (a project's or the last autosave's). */
+  load(configJson: string) {
+    try { this.cfg = JSON.parse(configJson) as Obj; } catch { return; }
+    this.render();
+  }
+
   private number(path: (string | number)[], label: string, unit: string, id: string): HTMLElement {
     const v = get(this.cfg, path) as number;
     const bound = this.bounds.get(path.join('.'));

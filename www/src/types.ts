@@ -139,10 +139,15 @@ export type ToWorker =
   | { type: 'init'; module: WebAssembly.Module }
   | { type: 'audit'; id: number; layers: string; config: string }
   | { type: 'plan'; id: number; layers: string; config: string; budget: number }
-  | { type: 'convert'; id: number; layer: string; name: string; bytes: ArrayBuffer; crs: string };
+  | { type: 'convert'; id: number; layer: string; name: string; bytes: ArrayBuffer; crs: string }
+
+  | { type: 'reaudit'; id: number; interventions: string }
+  | { type: 'compare'; id: number; before: string; after: string }
+  | { type: 'write_project'; id: number; project: string }
+  | { type: 'read_project'; id: number; bytes: Uint8Array };
 
 export type FromWorker =
   | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string>; configBounds?: string }
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
-  | { type: 'done'; id: number; doc: string; ms: number }
+  | { type: 'done'; id: number; doc: string; ms: number; bytes?: Uint8Array }
   | { type: 'failed'; id: number; error: string };

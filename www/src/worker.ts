@@ -33,7 +33,22 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     }
     return;
   }
-  if (msg.type === 'audit' || msg.type === 'plan') {
+  if (msg.type === 'write_project') {
+    try {
+      const bytes = core.projectWrite(msg.project);
+      post({ type: 'done', id: msg.id, doc: '', ms: 0, bytes });
+    } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
+    return;
+  }
+  if (msg.type === 'read_project' || msg.type === 'compare') {
+    const t0 = performance.now();
+    try {
+      const doc = msg.type === 'compare' ? core.compareAudits(msg.before, msg.after) : core.projectRead(msg.bytes);
+      post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
+    } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
+    return;
+  }
+  if (msg.type === 'audit' || msg.type === 'plan' || msg.type === 'reaudit') {
     const t0 = performance.now();
     const progress = (stage: string, done: number, total: number): boolean => {
       const now = performance.now();
@@ -45,7 +60,7 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
       return true;
     };
     try {
-      const doc = msg.type === 'plan'
+      const doc = msg.type === 'reaudit' ? core.reaudit(msg.interventions, progress) : msg.type === 'plan'
         ? (core as unknown as { plan: (l: string, c: string, b: number, p: typeof progress) => string }).plan(msg.layers, msg.config, msg.budget, progress)
         : core.audit(msg.layers, msg.config, progress);
       post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
