@@ -285,3 +285,84 @@ pub fn comparison_csv(c: &Comparison) -> String {
     }
     crate::export::csv_safe::csv_text(w)
 }
+
+/// The CSV on the Web metadata of `comparison.csv` (columns, units, caution), by file name.
+pub fn comparison_metadata() -> (String, serde_json::Value) {
+    use crate::export::csvw::{csv_metadata, metadata_name, Column};
+    let column = |name: String, datatype: &'static str, unit: &'static str, d: String| Column {
+        name,
+        datatype,
+        unit,
+        description: d,
+    };
+    let mut cols = vec![column(
+        "school_id".into(),
+        "string",
+        "",
+        "the catchment's school".into(),
+    )];
+    for (f, datatype, unit, what) in [
+        (
+            "children",
+            "number",
+            "children",
+            "children in the catchment",
+        ),
+        (
+            "children_in_walk_zone",
+            "number",
+            "children",
+            "children in the walk zone",
+        ),
+        (
+            "children_safe_route",
+            "number",
+            "children",
+            "children with a safe route",
+        ),
+        (
+            "children_hazardous",
+            "number",
+            "children",
+            "children on hazardous routes",
+        ),
+        (
+            "mean_risk_per_trip",
+            "number",
+            "risk points",
+            "mean risk per trip",
+        ),
+        (
+            "mean_active_minutes",
+            "number",
+            "min",
+            "mean active minutes a day",
+        ),
+    ] {
+        for when in ["before", "after"] {
+            cols.push(column(
+                format!("{f}_{when}"),
+                datatype,
+                unit,
+                format!("{what}, {when} the change"),
+            ));
+        }
+    }
+    for (f, what) in [
+        (
+            "children_route_changed",
+            "children whose recommended route changed",
+        ),
+        (
+            "children_gained_safe_route",
+            "children who gained a safe route",
+        ),
+        ("children_lost_safe_route", "children who lost a safe route"),
+    ] {
+        cols.push(column(f.into(), "number", "children", what.into()));
+    }
+    (
+        metadata_name("comparison.csv"),
+        csv_metadata("comparison.csv", "Before and after, per catchment", &cols),
+    )
+}

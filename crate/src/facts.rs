@@ -111,6 +111,7 @@ mod tests {
             catchments: None,
             preset: crate::input::Preset::Plain,
             mapping: None,
+            ..Default::default()
         };
         let (layers, _) = crate::input::read_layers(&raw).expect("demo town reads");
         let config = Config::default();

@@ -671,6 +671,9 @@ fn cli_plan_writes_interventions_that_reproduce_its_figures_and_compare_agrees()
         (gained_total - plan_gain).abs() < 1e-9,
         "{gained_total} vs {plan_gain}"
     );
-    assert!(slurp(&dir.join("cmp").join("comparison.csv")).starts_with("# "));
+    // Plain RFC 4180, header first; the caution and units sit in the CSVW metadata beside it.
+    assert!(slurp(&dir.join("cmp").join("comparison.csv")).starts_with("school_id,"));
+    let meta = slurp(&dir.join("cmp").join("comparison.csv-metadata.json"));
+    assert!(meta.contains(catchwalk::CAUTION) && meta.contains("children_lost_safe_route"));
     let _ = std::fs::remove_dir_all(&dir);
 }

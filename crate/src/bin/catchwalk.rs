@@ -522,6 +522,10 @@ fn run(cli: Cli) -> Result<(), String> {
                             "comparison.csv".into(),
                             catchwalk::compare::comparison_csv(&c),
                         ),
+                        {
+                            let (name, meta) = catchwalk::compare::comparison_metadata();
+                            (name, json(&meta))
+                        },
                     ],
                 )?;
             }

@@ -112,6 +112,8 @@ pub fn homes_columns() -> Vec<Column> {
         col("hazard_reason", "string", "", "the rule that marks it"),
         col("longest_wait_s", "number", "s", "longest average wait at an uncontrolled crossing (Highway Capacity Manual gap acceptance)"),
         col("longest_wait_los", "string", "", "its Highway Capacity Manual level of service (A-F)"),
+        col("walk_zone_m", "number", "m", "the walk zone applied to this home's pupils (the rule set's distance for elementary or secondary pupils)"),
+        col("site_checks", "string", "", "what the layers cannot settle and a site visit must check (unknown facts, rule conditions the data lacks), separated by ';'"),
     ]);
     c
 }
@@ -184,6 +186,24 @@ pub fn hotspots_columns() -> Vec<Column> {
             "Highway Capacity Manual average wait at the crossing",
         ),
         col("los", "string", "", "its level of service (A-F)"),
+        col(
+            "crashes",
+            "integer",
+            "crashes",
+            "observed crashes joined to the edge (counts only)",
+        ),
+        col(
+            "crashes_pedestrian",
+            "integer",
+            "crashes",
+            "of them, crashes with a pedestrian involved",
+        ),
+        col(
+            "crashes_ksi",
+            "integer",
+            "crashes",
+            "of them, crashes where someone was killed or seriously injured (KABCO K or A)",
+        ),
     ]
 }
 

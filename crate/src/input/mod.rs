@@ -128,7 +128,8 @@ pub fn read_layers(raw: &RawLayers) -> Result<(Layers, Vec<Warning>)> {
         (crate::error::LayerName::Schools, &raw.schools),
         (crate::error::LayerName::Homes, &raw.homes),
     ] {
-        if text.trim_start_matches('\u{feff}').trim().is_empty() {
+        // A layer given as a file (Shapefile, .osm.pbf) has no text of its own.
+        if per.file(layer).is_none() && text.trim_start_matches('\u{feff}').trim().is_empty() {
             return Err(crate::error::Error::input(
                 crate::error::Location::layer(layer),
                 "the file is empty (0 bytes or only blank space); load the layer's file with its features",
