@@ -56,7 +56,7 @@ export function isBinary(name: string): boolean {
 /** Places one file by its content; `layer` is null when nothing in it says which layer. */
 export function placeFile(f: DroppedFile): Placement {
   const ext = extension(f.name);
-  if (f.bytes || isBinary(f.name)) {
+  if (f.bytes || (f.text === undefined && isBinary(f.name))) {
     for (const p of binaryPlacers) {
       const got = p(f);
       if (got) return got;

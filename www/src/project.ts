@@ -93,6 +93,7 @@ export function toCoreProject(s: PageState): string {
       homes: f.homes?.text ?? '',
       homes_format: f.homes?.name.toLowerCase().endsWith('.csv') ? 'csv' : 'geo_json',
       catchments: f.catchments?.text ?? null,
+      crashes: f.crashes?.text ?? null,
       preset: s.preset,
       mapping: f.mapping?.text ?? null,
     },
@@ -104,7 +105,7 @@ export function toCoreProject(s: PageState): string {
 }
 
 interface CoreProject {
-  layers: { streets: string; crossings: string | null; schools: string; homes: string; homes_format: string; catchments: string | null; preset: string; mapping: string | null };
+  layers: { streets: string; crossings: string | null; schools: string; homes: string; homes_format: string; catchments: string | null; crashes?: string | null; preset: string; mapping: string | null };
   config: unknown;
   scenarios: { name: string; interventions: string }[];
   notes: Note[];
@@ -123,6 +124,7 @@ export function fromCoreProject(text: string, source: string): PageState {
       schools: file(l.schools, 'schools.geojson'),
       homes: file(l.homes, l.homes_format === 'csv' ? 'homes.csv' : 'homes.geojson'),
       catchments: file(l.catchments, 'catchments.geojson'),
+      crashes: file(l.crashes ?? null, 'crashes.geojson'),
       mapping: file(l.mapping, 'mapping.json'),
     },
     preset: l.preset,
