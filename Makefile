@@ -93,19 +93,20 @@ bench: build
 # tests/corpus; new inputs in fuzz/corpus/<target>, crashes in fuzz/artifacts/<target>/ (a
 # fixed crash goes into tests/corpus with its expected outcome).
 FUZZ_SECONDS ?= 60
-FUZZ_TARGETS ?= read_layers build_network audit
+FUZZ_TARGETS ?= read_layers build_network audit shapefile pbf
 
 setup-fuzz: setup-rust
 	@rustup toolchain list | grep -q '^nightly' || rustup toolchain install nightly --profile minimal
 	@cargo fuzz --version >/dev/null 2>&1 || cargo install cargo-fuzz
 
-fuzz: setup-fuzz
+fuzz: setup-fuzz $(OSM_EXTRACT)
 	$(PYTHON) tools/fuzz_seeds.py
 	@mkdir -p out
 	@for t in $(FUZZ_TARGETS); do \
 	  mkdir -p fuzz/corpus/$$t; \
 	  echo "fuzzing $$t for $(FUZZ_SECONDS) s"; \
-	  cargo +nightly fuzz run $$t fuzz/corpus/$$t fuzz/seeds -- -max_total_time=$(FUZZ_SECONDS) \
+	  seeds=fuzz/seeds; [ -d fuzz/seeds-$$t ] && seeds=fuzz/seeds-$$t; \
+	  cargo +nightly fuzz run $$t fuzz/corpus/$$t $$seeds -- -max_total_time=$(FUZZ_SECONDS) \
 	    -rss_limit_mb=4096 -max_len=65536 -print_final_stats=1 > out/fuzz-$$t.log 2>&1 || \
 	    { tail -40 out/fuzz-$$t.log; echo "fuzz target $$t found a crash: see fuzz/artifacts/$$t/"; exit 1; }; \
 	  grep -E "stat::number_of_executed_units|Done [0-9]+ runs" out/fuzz-$$t.log | tail -2; \

@@ -1,5 +1,6 @@
 #!/usr/bin/env python3
-"""Writes fuzz seeds (fuzz/seeds/, not committed) from the demo town and tests/corpus.
+"""Writes fuzz seeds (fuzz/seeds/, not committed) from the demo town and tests/corpus, and
+fuzz/seeds-shapefile/ and fuzz/seeds-pbf/ for the binary readers.
 
 Each seed: one flags byte (1: homes are CSV, 2: osm preset, 4: a mapping is given), then
 streets, schools, homes, crossings, catchments and mapping text separated by 0xFF bytes,
@@ -35,6 +36,18 @@ def main():
             (OUT / d.name).write_bytes(data)
             n += 1
     print(f"wrote {n} seeds to {OUT}", file=sys.stderr)
+    # Binary readers get seeds of their own format: a zipped Shapefile fixture, and the
+    # OpenStreetMap extract the Makefile fetches (when it is there).
+    for target, files in [
+        ("shapefile", [ROOT / "tests" / "wasm" / "fixtures" / "demo-streets-utm25n.zip"]),
+        ("pbf", [ROOT / ".cache" / "osm" / "test.osm.pbf"]),
+    ]:
+        out = ROOT / "fuzz" / f"seeds-{target}"
+        out.mkdir(parents=True, exist_ok=True)
+        for f in files:
+            if f.is_file():
+                (out / f.name).write_bytes(f.read_bytes())
+        print(f"wrote {len(list(out.iterdir()))} seeds to {out}", file=sys.stderr)
 
 
 if __name__ == "__main__":

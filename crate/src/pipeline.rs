@@ -299,34 +299,73 @@ pub fn route_members(
     home_att: &[Option<Attachment>],
     tree: &mut Tree,
 ) -> Vec<Option<AuditedRoute>> {
-    let mut targets = Vec::with_capacity(members.len() * 2);
-    for att in members
-        .iter()
-        .filter_map(|&i| home_att.get(i).copied().flatten())
-    {
-        if let Some(e) = g.edges.get(att.edge as usize) {
-            targets.push(e.a);
-            targets.push(e.b);
+    let risk = |r: &Route| route_risk(g, streets, config, r);
+    let at = RouteTargets {
+        g,
+        streets,
+        home_att,
+        entrances,
+    };
+    at.route(kind, cost, members, tree, &risk)
+}
+
+/// What routing members to one school reads; the risk of a route is passed in, so the audit
+/// (the facts table) and the planner (its own costs) share one routing.
+struct RouteTargets<'a> {
+    g: &'a PedGraph,
+    streets: &'a [Street],
+    home_att: &'a [Option<Attachment>],
+    entrances: &'a [Attachment],
+}
+
+impl RouteTargets<'_> {
+    fn route(
+        &self,
+        kind: RouteKind,
+        cost: &[f64],
+        members: &[usize],
+        tree: &mut Tree,
+        risk: &dyn Fn(&Route) -> f64,
+    ) -> Vec<Option<AuditedRoute>> {
+        let g = self.g;
+        let mut targets = Vec::with_capacity(members.len() * 2);
+        for att in members
+            .iter()
+            .filter_map(|&i| self.home_att.get(i).copied().flatten())
+        {
+            if let Some(e) = g.edges.get(att.edge as usize) {
+                targets.push(e.a);
+                targets.push(e.b);
+            }
         }
+        if self.entrances.is_empty() || targets.is_empty() {
+            return vec![None; members.len()];
+        }
+        tree.grow(
+            g,
+            cost,
+            &entrance_sources(g, cost, self.entrances),
+            &targets,
+        );
+        let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
+        members
+            .iter()
+            .map(|&i| {
+                let att = self.home_att.get(i).copied().flatten()?;
+                shared
+                    .entry((att.edge, att.offset_m.to_bits()))
+                    .or_insert_with(|| {
+                        route_to_school(g, tree, cost, &att, self.entrances).map(|r| AuditedRoute {
+                            kind,
+                            audit: audit_route(g, self.streets, &r),
+                            risk: risk(&r),
+                            route: r,
+                        })
+                    })
+                    .clone()
+            })
+            .collect()
     }
-    if entrances.is_empty() || targets.is_empty() {
-        return vec![None; members.len()];
-    }
-    tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
-    let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
-    members
-        .iter()
-        .map(|&i| {
-            let att = home_att.get(i).copied().flatten()?;
-            shared
-                .entry((att.edge, att.offset_m.to_bits()))
-                .or_insert_with(|| {
-                    route_to_school(g, tree, cost, &att, entrances)
-                        .map(|r| audited_route(g, streets, config, kind, r))
-                })
-                .clone()
-        })
-        .collect()
 }
 
 /// Runs the audit on layers already read.
@@ -590,39 +629,14 @@ fn route_members_with(
     members: &[usize],
     tree: &mut Tree,
 ) -> Vec<Option<AuditedRoute>> {
-    let g = ctx.g;
-    let mut targets = Vec::with_capacity(members.len() * 2);
-    for att in members
-        .iter()
-        .filter_map(|&i| ctx.home_att.get(i).copied().flatten())
-    {
-        if let Some(e) = g.edges.get(att.edge as usize) {
-            targets.push(e.a);
-            targets.push(e.b);
-        }
-    }
-    if entrances.is_empty() || targets.is_empty() {
-        return vec![None; members.len()];
-    }
-    tree.grow(g, cost, &entrance_sources(g, cost, entrances), &targets);
-    let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
-    members
-        .iter()
-        .map(|&i| {
-            let att = ctx.home_att.get(i).copied().flatten()?;
-            shared
-                .entry((att.edge, att.offset_m.to_bits()))
-                .or_insert_with(|| {
-                    route_to_school(g, tree, cost, &att, entrances).map(|r| AuditedRoute {
-                        kind,
-                        audit: audit_route(g, ctx.streets, &r),
-                        risk: route_risk_from(g, &ctx.facts.risk_points, &r),
-                        route: r,
-                    })
-                })
-                .clone()
-        })
-        .collect()
+    let risk = |r: &Route| route_risk_from(ctx.g, &ctx.facts.risk_points, r);
+    let at = RouteTargets {
+        g: ctx.g,
+        streets: ctx.streets,
+        home_att: ctx.home_att,
+        entrances,
+    };
+    at.route(kind, cost, members, tree, &risk)
 }
 
 /// Risk points of one trip along a route from per-edge risk points (partial edges pro rata).

@@ -125,3 +125,22 @@ test('an out-of-range setting is refused with the core\'s message; a corpus case
   assert.match(await page.locator('#messages').innerText(), /from 1 to 32/);
   assert.deepEqual(leaks, []);
 });
+
+test('a file that is not UTF-8 is refused in the page with where and what to do', async () => {
+  const { page, leaks } = await guardedPage(browser);
+  await page.goto(base);
+  await waitAudits(page, 1);
+  // A streets layer saved as Latin-1: "Rue de l'Église" with É as the single byte 0xC9.
+  const text = readFileSync(join(root, 'sample-maps', 'demo-town', 'streets.geojson'), 'utf8')
+    .replace('"name":"Elm Street"', '"name":"Rue de l\'\u00c9glise"');
+  const latin1 = Buffer.from(text, 'latin1');
+  assert.ok(latin1.includes(0xc9), 'the fixture holds a Latin-1 byte');
+  await page.setInputFiles('#file-streets', { name: 'streets-latin1.geojson', mimeType: 'application/geo+json', buffer: latin1 });
+  await page.waitForFunction(() => /not UTF-8/.test(document.getElementById('status')?.textContent ?? ''), null, { timeout: 20000 });
+  const status = await page.locator('#status').innerText();
+  assert.match(status, /streets-latin1\.geojson is not UTF-8 text \(first bad byte at line \d+, column \d+\): re-save it as UTF-8/);
+  // The layer keeps its previous file: nothing silently replaced.
+  assert.match(await page.locator('[data-layer="streets"] .fname').innerText(), /streets\.geojson/);
+  assert.deepEqual(leaks, []);
+  await page.context().close();
+});

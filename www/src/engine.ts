@@ -52,6 +52,21 @@ function workerUrl(): string {
 }
 
 /** File names the core reads as bytes (zipped Shapefile, OpenStreetMap .osm.pbf). */
+/** A text file's bytes as UTF-8; a file in another encoding is refused with where its first
+ * bad byte is and what to do (the browser would otherwise replace the bytes without a word). */
+export function utf8Text(name: string, bytes: ArrayBuffer): string {
+  try {
+    return new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+  } catch {
+    const loose = new TextDecoder('utf-8').decode(bytes);
+    const bad = Math.max(0, loose.indexOf('\uFFFD'));
+    const before = loose.slice(0, bad);
+    const line = before.split('\n').length;
+    const column = bad - before.lastIndexOf('\n');
+    throw new Error(`${name} is not UTF-8 text (first bad byte at line ${line}, column ${column}): re-save it as UTF-8 (in a spreadsheet or GIS: "UTF-8" encoding) and load it again`);
+  }
+}
+
 export function isBinaryLayer(name: string): boolean {
   return /\.(zip|pbf)$/i.test(name);
 }
@@ -131,7 +146,7 @@ export class Engine {
   /** A layer file as text: GeoJSON/CSV as they are; a zipped Shapefile (.zip) or an
    * OpenStreetMap extract (.pbf) converted to WGS84 GeoJSON by the core in the worker. */
   async layerText(layer: string, file: File, crs = ''): Promise<string> {
-    if (!isBinaryLayer(file.name)) return file.text();
+    if (!isBinaryLayer(file.name)) return utf8Text(file.name, await file.arrayBuffer());
     const bytes = await file.arrayBuffer();
     const r = await this.send((id) => ({ type: 'convert', id, layer, name: file.name, bytes, crs }), () => {});
     return r.docText;

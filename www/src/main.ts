@@ -2,7 +2,7 @@
 
 import { chartImages, drawCharts } from './charts';
 import { $, download, el } from './dom';
-import { Engine } from './engine';
+import { Engine, utf8Text } from './engine';
 import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
 import { buildView, type View } from './model';
@@ -702,7 +702,9 @@ document.addEventListener('drop', async (e) => {
       } else unknown.push(`${file.name} (${p.why})`);
       continue;
     }
-    const text = await file.text();
+    let text: string;
+    try { text = utf8Text(file.name, await file.arrayBuffer()); }
+    catch (e) { unknown.push(errorText(e)); continue; }
     const p = placeFile({ name: file.name, text });
     if (p.layer) {
       setFile(p.layer, { name: file.name, text }, p);
