@@ -7,34 +7,8 @@ use catchwalk::input::{HomesFormat, Preset, RawLayers};
 use catchwalk::pipeline::{run_audit, AuditOutput, Silent};
 use std::collections::HashMap;
 
-const WEST: [f64; 2] = [-35.0, 42.0];
-const MID: [f64; 2] = [-34.998, 42.0];
-const EAST: [f64; 2] = [-34.996, 42.0];
-
-fn fc(features: &[String]) -> String {
-    format!(
-        r#"{{"type":"FeatureCollection","features":[{}]}}"#,
-        features.join(",")
-    )
-}
-
-fn line(id: &str, props: &str, coords: &[[f64; 2]]) -> String {
-    let c: Vec<String> = coords
-        .iter()
-        .map(|p| format!("[{},{}]", p[0], p[1]))
-        .collect();
-    format!(
-        r#"{{"type":"Feature","properties":{{"id":"{id}",{props}}},"geometry":{{"type":"LineString","coordinates":[{}]}}}}"#,
-        c.join(",")
-    )
-}
-
-fn point(props: &str, p: [f64; 2]) -> String {
-    format!(
-        r#"{{"type":"Feature","properties":{{{props}}},"geometry":{{"type":"Point","coordinates":[{},{}]}}}}"#,
-        p[0], p[1]
-    )
-}
+mod hand_layers;
+use hand_layers::{fc, line, point, EAST, MID, WEST};
 
 /// A main street west-east through a four-way junction with a side street (shared vertex MID),
 /// a school north of the east end and one home north of the west end.
