@@ -108,7 +108,7 @@ fuzz: setup-fuzz $(OSM_EXTRACT)
 	  seeds=fuzz/seeds; [ -d fuzz/seeds-$$t ] && seeds=fuzz/seeds-$$t; \
 	  cargo +nightly fuzz run $$t fuzz/corpus/$$t $$seeds -- -max_total_time=$(FUZZ_SECONDS) \
 	    -rss_limit_mb=4096 -max_len=65536 -print_final_stats=1 > out/fuzz-$$t.log 2>&1 || \
-	    { tail -40 out/fuzz-$$t.log; echo "fuzz target $$t found a crash: see fuzz/artifacts/$$t/"; exit 1; }; \
+	    { tail -40 out/fuzz-$$t.log; if ls fuzz/artifacts/$$t/* >/dev/null 2>&1; then echo "fuzz target $$t found a crash: see fuzz/artifacts/$$t/"; else echo "fuzz target $$t did not build or run: see out/fuzz-$$t.log"; fi; exit 1; }; \
 	  grep -E "stat::number_of_executed_units|Done [0-9]+ runs" out/fuzz-$$t.log | tail -2; \
 	done
 

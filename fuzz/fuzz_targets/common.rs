@@ -1,6 +1,7 @@
 //! Shared by the fuzz targets: one input becomes the layers of an audit. The first byte
 //! chooses the preset, the homes format and whether a mapping is given; the rest is split at
-//! 0xFF bytes into streets, schools, homes, crossings, catchments and mapping text (seeds are
+//! 0xFF bytes into streets, schools, homes, crossings, catchments, mapping, interventions and
+//! crashes text (seeds are
 //! written that way by `tools/fuzz_seeds.py`).
 
 use catchwalk::input::{HomesFormat, Preset, RawLayers};
@@ -15,6 +16,9 @@ pub fn layers(data: &[u8]) -> Option<RawLayers> {
     let crossings = next();
     let catchments = next();
     let mapping = next();
+    // The optional layers added later (interventions, crashes) follow, when present.
+    let interventions = Some(next()).filter(|t| !t.is_empty());
+    let crashes = Some(next()).filter(|t| !t.is_empty());
     Some(RawLayers {
         streets,
         schools,
@@ -24,5 +28,8 @@ pub fn layers(data: &[u8]) -> Option<RawLayers> {
         catchments: Some(catchments),
         preset: if flags & 2 == 2 { Preset::Osm } else { Preset::Plain },
         mapping: (flags & 4 == 4).then_some(mapping),
+        interventions,
+        crashes,
+        ..RawLayers::default()
     })
 }

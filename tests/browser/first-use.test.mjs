@@ -7,22 +7,14 @@ import { strict as assert } from 'node:assert';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
-import { serve } from '../../www/serve.mjs';
+import { guardedPage, root, shots, waitAudits, openPage, closePage } from './helpers.mjs';
 import { BOUNDS, DISTRICT_HOMES, districtFiles, writeDistrict } from './district.mjs';
 
 let browser, server, base;
 const tmp = mkdtempSync(join(tmpdir(), 'catchwalk-first-'));
 
-before(async () => {
-  server = await serve(join(root, 'www', 'build'), 0);
-  base = `http://127.0.0.1:${server.address().port}/`;
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.close();
-});
+before(async () => ({ browser, server, base } = await openPage()));
+after(() => closePage({ browser, server }));
 
 /** The map's view once it has stopped moving: centre, zoom and bounds. */
 const viewOf = (page) => page.evaluate(() => new Promise((r) => {

@@ -6,21 +6,13 @@ import { after, before, test } from 'node:test';
 import { strict as assert } from 'node:assert';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { guardedPage, launch, root, waitAudits } from './helpers.mjs';
-import { serve } from '../../www/serve.mjs';
+import { guardedPage, root, waitAudits, openPage, closePage } from './helpers.mjs';
 
 let browser, server, base;
 const zip = join(root, 'tests', 'wasm', 'fixtures', 'demo-streets-utm25n.zip');
 
-before(async () => {
-  server = await serve(join(root, 'www', 'build'), 0);
-  base = `http://127.0.0.1:${server.address().port}/`;
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.close();
-});
+before(async () => ({ browser, server, base } = await openPage()));
+after(() => closePage({ browser, server }));
 
 const audits = (page) => page.evaluate(() => Number(document.body.dataset.audits ?? 0));
 

@@ -8,8 +8,7 @@ import { strict as assert } from 'node:assert';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createRequire } from 'node:module';
-import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
-import { serve } from '../../www/serve.mjs';
+import { guardedPage, root, shots, waitAudits, openPage, closePage } from './helpers.mjs';
 
 const Papa = createRequire(join(root, 'www', 'package.json'))('papaparse');
 const corpus = join(root, 'tests', 'corpus');
@@ -17,15 +16,8 @@ let browser, server, base;
 /** A corpus case's folder by its name (without the NN- number). */
 const caseDir = (name) => join(corpus, readdirSync(corpus).find((d) => d.replace(/^\d+-/, '') === name));
 
-before(async () => {
-  server = await serve(join(root, 'www', 'build'), 0);
-  base = `http://127.0.0.1:${server.address().port}/`;
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.close();
-});
+before(async () => ({ browser, server, base } = await openPage()));
+after(() => closePage({ browser, server }));
 
 const audits = (page) => page.evaluate(() => Number(document.body.dataset.audits ?? 0));
 const failures = (page) => page.evaluate(() => Number(document.body.dataset.failures ?? 0));

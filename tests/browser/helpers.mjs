@@ -65,3 +65,16 @@ export async function waitAudits(page, n, timeout = 60_000) {
     throw new Error(`audit failed in the page: ${msg}`);
   }
 }
+
+/** The built page served on a free loopback port, and Chromium: one of each per test file. */
+export async function openPage() {
+  const { serve } = await import('../../www/serve.mjs');
+  const server = await serve(join(root, 'www', 'build'), 0);
+  return { server, base: `http://127.0.0.1:${server.address().port}/`, browser: await launch() };
+}
+
+/** Stops what [`openPage`] started. */
+export async function closePage({ browser, server }) {
+  await browser?.close();
+  server?.close();
+}

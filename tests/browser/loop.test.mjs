@@ -10,23 +10,15 @@ import { execFileSync } from 'node:child_process';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
-import { serve } from '../../www/serve.mjs';
+import { guardedPage, root, shots, waitAudits, openPage, closePage } from './helpers.mjs';
 import { assertSameHomesCsv } from '../wasm/compare.mjs';
 
 const cli = process.env.CATCHWALK_CLI ?? join(root, 'target', 'release', 'catchwalk');
 const tmp = mkdtempSync(join(tmpdir(), 'catchwalk-loop-'));
 let browser, server, base;
 
-before(async () => {
-  server = await serve(join(root, 'www', 'build'), 0);
-  base = `http://127.0.0.1:${server.address().port}/`;
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.close();
-});
+before(async () => ({ browser, server, base } = await openPage()));
+after(() => closePage({ browser, server }));
 
 const audits = (page) => page.evaluate(() => Number(document.body.dataset.audits ?? 0));
 const state = (page) => page.evaluate(() => window.catchwalk.state());

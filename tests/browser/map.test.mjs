@@ -9,8 +9,7 @@ import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { guardedPage, launch, root, shots, waitAudits } from './helpers.mjs';
-import { serve } from '../../www/serve.mjs';
+import { guardedPage, root, shots, waitAudits, openPage, closePage } from './helpers.mjs';
 
 let browser, server, base;
 const tmp = mkdtempSync(join(tmpdir(), 'catchwalk-map-'));
@@ -18,15 +17,8 @@ const demo = join(root, 'sample-maps', 'demo-town');
 const demoStreets = JSON.parse(readFileSync(join(demo, 'streets.geojson'), 'utf8'));
 const STREET_NAMES = new Set(demoStreets.features.map((f) => f.properties.name).filter(Boolean));
 
-before(async () => {
-  server = await serve(join(root, 'www', 'build'), 0);
-  base = `http://127.0.0.1:${server.address().port}/`;
-  browser = await launch();
-});
-after(async () => {
-  await browser?.close();
-  server?.close();
-});
+before(async () => ({ browser, server, base } = await openPage()));
+after(() => closePage({ browser, server }));
 
 const idle = (page) => page.evaluate(() => new Promise((r) => {
   const m = window.catchwalk.map;

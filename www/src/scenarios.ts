@@ -12,7 +12,8 @@ import type { Feature, FeatureCollection, LonLat } from './types';
 export const KINDS: { kind: string; label: string; on: 'crossing' | 'street' | 'path' }[] = [
   { kind: 'signal', label: 'signal', on: 'crossing' },
   { kind: 'all_way_stop', label: 'all-way stop', on: 'crossing' },
-  { kind: 'stop', label: 'stop / yield on the minor leg', on: 'crossing' },
+  { kind: 'stop', label: 'stop sign on the minor leg', on: 'crossing' },
+  { kind: 'yield', label: 'yield sign on the minor leg', on: 'crossing' },
   { kind: 'marked', label: 'marked crosswalk', on: 'crossing' },
   { kind: 'guard', label: 'crossing guard (hours)', on: 'crossing' },
   { kind: 'refuge', label: 'refuge island', on: 'crossing' },

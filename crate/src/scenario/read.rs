@@ -181,7 +181,7 @@ pub fn read_interventions(text_in: &str) -> Result<Vec<Intervention>> {
 
 /// The crossing-control values an intervention can take (the crossings layer's, but `none`).
 const CONTROL_VALUES_NO_NONE: &str =
-    "signal, all_way_stop, stop, marked, guard, refuge, raised, beacon (join several with ';')";
+    "signal, all_way_stop, stop, yield, marked, guard, refuge, raised, beacon (join several with ';')";
 
 #[cfg(test)]
 mod tests {
