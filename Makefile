@@ -12,7 +12,7 @@ OSM_EXTRACT := $(CACHE)/osm/test.osm.pbf
 BIN := $(or $(CARGO_TARGET_DIR),target)/release/catchwalk
 
 .PHONY: run test setup setup-rust setup-py setup-osm build cli-demo test-rust test-reference \
-	lint bench fmt clean-cache setup-fuzz fuzz
+	lint bench bench-scaling fmt clean-cache setup-fuzz fuzz
 
 # The page's build, serve and browser-test targets live with the page.
 -include www/web.mk
@@ -88,6 +88,14 @@ bench: build
 	wasm-bindgen --target web --out-dir out/bench/wasm --out-name catchwalk $(BENCH_WASM)
 	$(PYTHON) tools/bench/bench.py
 	$(CARGO) run --release --example bench_reaudit
+
+# How the whole CLI run grows from 1 k to 1 M segments and in homes (tools/bench/scaling.py;
+# about 10 minutes, several GB at 1 M): writes out/bench/scaling.md.
+bench-scaling: build
+	@$(PYTHON) -c "import igraph, networkx" 2>/dev/null || \
+		$(PYTHON) -m pip install -q --disable-pip-version-check -r tools/bench/requirements.txt
+	$(CARGO) build --release --example make_city
+	$(PYTHON) tools/bench/scaling.py
 
 # --- fuzzing (not in `make test`): each target for FUZZ_SECONDS, seeded from the demo town and
 # tests/corpus; new inputs in fuzz/corpus/<target>, crashes in fuzz/artifacts/<target>/ (a
