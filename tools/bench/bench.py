@@ -35,13 +35,20 @@ def timed(cmd):
     return p.stdout, wall, (int(rss.group(1)) / 1024 if rss else float("nan"))
 
 
-def scale(segments, homes, nx_trees, wasm):
+def audit_city(segments, homes):
+    """Writes the synthetic city and audits it with the CLI: (folder, make_city's figures,
+    wall seconds, peak MB)."""
     city = OUT / f"city-{segments}-{homes}"
     made = json.loads(subprocess.run([EXAMPLES / "make_city", str(segments), str(homes), city],
                                      check=True, capture_output=True, text=True).stdout)
     layers = ["--streets", city / "streets.geojson", "--crossings", city / "crossings.geojson",
               "--schools", city / "schools.geojson", "--homes", city / "homes.csv"]
     _, cli_s, cli_mb = timed([CLI, "audit", *layers, "--out", city / "audit"])
+    return city, made, cli_s, cli_mb
+
+
+def scale(segments, homes, nx_trees, wasm):
+    city, made, cli_s, cli_mb = audit_city(segments, homes)
     out_mb = sum(f.stat().st_size for f in (city / "audit").iterdir()) / 1e6
     stages_out, _, stages_mb = timed([EXAMPLES / "bench_stages", city])
     stages = json.loads(stages_out)

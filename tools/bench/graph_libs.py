@@ -39,7 +39,7 @@ def run_igraph(n, edges, weights, sources, limit=None):
         d = g.distances(source=[s], weights="w")[0]
         if first is None:
             first = d
-    return (time.perf_counter() - t) * len(sources) / max(len(picked), 1), first
+    return (time.perf_counter() - t) * len(sources) / max(len(picked), 1), len(picked), first
 
 
 def run_networkx(n, edges, weights, sources, limit):
@@ -63,22 +63,17 @@ def run_networkx(n, edges, weights, sources, limit):
 
 def main():
     city = Path(sys.argv[1])
-    limit = None
-    if "--networkx-trees" in sys.argv:
-        limit = int(sys.argv[sys.argv.index("--networkx-trees") + 1])
-    ig_limit = None
-    if "--igraph-trees" in sys.argv:
-        ig_limit = int(sys.argv[sys.argv.index("--igraph-trees") + 1])
+    trees = lambda flag: int(sys.argv[sys.argv.index(flag) + 1]) if flag in sys.argv else None
     n, edges, weights, sources = read_graph(city)
-    ig_s, ig_first = run_igraph(n, edges, weights, sources, ig_limit)
-    nx_s, nx_trees, nx_first = run_networkx(n, edges, weights, sources, limit)
+    ig_s, ig_trees, ig_first = run_igraph(n, edges, weights, sources, trees("--igraph-trees"))
+    nx_s, nx_trees, nx_first = run_networkx(n, edges, weights, sources, trees("--networkx-trees"))
     worst = max(
         (abs(ig_first[v] - d) for v, d in nx_first.items() if ig_first[v] != float("inf")),
         default=0.0,
     )
     print(json.dumps({
         "nodes": n, "edges": len(edges), "trees": len(sources),
-        "igraph_s": ig_s, "igraph_trees_timed": min(ig_limit or len(sources), len(sources)),
+        "igraph_s": ig_s, "igraph_trees_timed": ig_trees,
         "networkx_s": nx_s,
         "networkx_trees_timed": nx_trees,
         "networkx_extrapolated": nx_trees < len(sources),

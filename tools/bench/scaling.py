@@ -14,21 +14,17 @@ override the rows (SCALING_HOMES is run at 100 k segments; empty to skip).
 import json
 import math
 import os
+import shutil
 import subprocess
 import sys
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
-from bench import CLI, EXAMPLES, OUT, ROOT, timed  # noqa: E402
+from bench import OUT, ROOT, audit_city  # noqa: E402
 
 
 def run(segments, homes):
-    city = OUT / f"city-{segments}-{homes}"
-    made = json.loads(subprocess.run([EXAMPLES / "make_city", str(segments), str(homes), city],
-                                     check=True, capture_output=True, text=True).stdout)
-    layers = ["--streets", city / "streets.geojson", "--crossings", city / "crossings.geojson",
-              "--schools", city / "schools.geojson", "--homes", city / "homes.csv"]
-    _, cli_s, cli_mb = timed([CLI, "audit", *layers, "--out", city / "audit"])
+    city, made, cli_s, cli_mb = audit_city(segments, homes)
     # igraph grows whole-network trees: at 1 M segments 2 000 of them take many minutes, so
     # from 500 k segments it times IGRAPH_TREES of them, scaled to every school (said so).
     libs_args = [sys.executable, ROOT / "tools/bench/graph_libs.py", city, "--networkx-trees", "1"]
@@ -39,7 +35,7 @@ def run(segments, homes):
            "igraph_trees_timed": libs["igraph_trees_timed"]}
     print(json.dumps(row), file=sys.stderr)
     # The city's files are large at 1 M segments: keep only the figures.
-    subprocess.run(["rm", "-rf", str(city)], check=True)
+    shutil.rmtree(city)
     return row
 
 
@@ -91,8 +87,16 @@ def main():
     homes = [int(s) for s in os.environ.get("SCALING_HOMES",
                                             "10000,25000,50000,100000").split(",") if s]
     OUT.mkdir(parents=True, exist_ok=True)
-    by_segments = [run(n, max(n // 2, 100)) for n in segs]
-    by_homes = [run(100_000, h) for h in homes]
+    # A city in both series (100 k segments, 50 k homes by default) is audited once.
+    rows = {}
+
+    def row(seg, h):
+        if (seg, h) not in rows:
+            rows[(seg, h)] = run(seg, h)
+        return rows[(seg, h)]
+
+    by_segments = [row(n, max(n // 2, 100)) for n in segs]
+    by_homes = [row(100_000, h) for h in homes]
     (OUT / "scaling.json").write_text(json.dumps({"segments": by_segments, "homes": by_homes},
                                                  indent=1))
     md = table(by_segments, by_homes)
