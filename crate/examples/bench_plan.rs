@@ -2,15 +2,16 @@
 //! arterials every tenth street, signals where arterials meet, uncontrolled crossings of the
 //! arterials elsewhere).
 //!
-//! `cargo run --release --example bench_plan [grid_side] [homes] [schools] [budget]`
-//! (defaults 100, 5000, 20, 5).
+//! `cargo run --release --example bench_plan [grid_side] [homes] [schools] [budget] [check]`
+//! (defaults 100, 5000, 20, 5, 0); `check` 1 also plans afresh (every candidate tried every
+//! round), times it, and says whether the two plans are identical.
 
 #[path = "support/synthetic_district.rs"]
 mod synthetic_district;
 
 use catchwalk::config::Config;
 use catchwalk::pipeline::audit_layers;
-use catchwalk::score::plan::plan_upgrades;
+use catchwalk::score::plan::{plan_upgrades, plan_upgrades_afresh};
 use std::time::Instant;
 
 fn main() {
@@ -39,6 +40,15 @@ fn main() {
                 plan.safe_children_after,
                 plan.children_routed
             );
+            if arg(5, 0) == 1 {
+                let t = Instant::now();
+                let afresh = plan_upgrades_afresh(&out, &out.scores.homes, budget);
+                println!(
+                    "afresh: {:.0} ms; identical plans: {}",
+                    t.elapsed().as_secs_f64() * 1000.0,
+                    afresh == plan
+                );
+            }
         }
         Err(e) => eprintln!("audit failed: {e}"),
     }

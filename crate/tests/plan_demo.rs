@@ -9,7 +9,7 @@ use catchwalk::config::Config;
 use catchwalk::input::Layers;
 use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
 use catchwalk::score::plan::{
-    plan_upgrades, recommended_costs, reroute_school, RouteContext, Upgrade,
+    plan_upgrades, plan_upgrades_afresh, recommended_costs, reroute_school, RouteContext, Upgrade,
 };
 
 fn audit(layers: &Layers) -> AuditOutput {
@@ -110,4 +110,19 @@ fn a_budget_of_five_raises_the_safe_route_share_by_what_it_reports() {
             step.children_gained
         );
     }
+}
+
+#[test]
+fn kept_tries_and_both_cores_give_the_plan_of_trying_everything_on_one_thread() {
+    // The planner keeps a candidate's try across rounds while no choice could alter it and
+    // tries candidates on every core; neither may change a figure.
+    let out = audit(&demo_town());
+    let kept = plan_upgrades(&out, &out.scores.homes, 8);
+    let one_thread = match rayon::ThreadPoolBuilder::new().num_threads(1).build() {
+        Ok(pool) => pool,
+        Err(e) => panic!("no thread pool: {e}"),
+    };
+    let afresh = one_thread.install(|| plan_upgrades_afresh(&out, &out.scores.homes, 8));
+    assert!(kept.steps.len() >= 2, "{} steps", kept.steps.len());
+    assert_eq!(kept, afresh);
 }

@@ -214,6 +214,15 @@ impl Tree {
 pub struct Reached(Vec<u64>);
 
 impl Reached {
+    /// Adds the corners of `other`.
+    pub fn merge(&mut self, other: &Reached) {
+        if self.0.len() < other.0.len() {
+            self.0.resize(other.0.len(), 0);
+        }
+        for (w, o) in self.0.iter_mut().zip(&other.0) {
+            *w |= o;
+        }
+    }
     pub fn contains(&self, corner: u32) -> bool {
         self.0
             .get(corner as usize / 64)

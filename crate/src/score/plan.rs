@@ -14,7 +14,7 @@ use crate::input::{Device, SideWalk, Street, Students};
 use crate::network::{Attachment, PedEdgeKind, PedGraph};
 use crate::pipeline::{AuditOutput, AuditedRoute, HomeResult};
 use crate::route::path::{entrance_sources, route_to_school};
-use crate::route::tree::Tree;
+use crate::route::tree::{Reached, Tree};
 use crate::route::{Route, RouteKind};
 use serde::{Deserialize, Serialize};
 use std::collections::{BTreeSet, HashMap};
@@ -257,6 +257,25 @@ pub fn reroute_school(
     homes: &[HomeResult],
     changed: Option<&BTreeSet<u32>>,
 ) -> Vec<(usize, HomeResult, bool)> {
+    let mut tree = Tree::for_graph(ctx.graph);
+    let mut reach = Reached::default();
+    reroute_school_in(
+        ctx, entrances, members, homes, changed, &mut tree, &mut reach,
+    )
+}
+
+/// [`reroute_school`] in a tree's buffers kept between calls (a tree per corner of the
+/// graph is several megabytes on a district: the planner reuses one per worker); adds the
+/// corners its trees reached to `reach`.
+pub fn reroute_school_in(
+    ctx: &RouteContext,
+    entrances: &[Attachment],
+    members: &[usize],
+    homes: &[HomeResult],
+    changed: Option<&BTreeSet<u32>>,
+    tree: &mut Tree,
+    reach: &mut Reached,
+) -> Vec<(usize, HomeResult, bool)> {
     let RouteContext {
         graph,
         streets,
@@ -266,7 +285,6 @@ pub fn reroute_school(
     } = *ctx;
     let touches = |r: &Route| changed.is_none_or(|c| r.steps.iter().any(|s| c.contains(&s.edge)));
     let mut out = Vec::with_capacity(members.len());
-    let mut tree = Tree::for_graph(graph);
     let mut targets = Vec::new();
     for &i in members {
         if let Some(e) = homes
@@ -285,6 +303,7 @@ pub fn reroute_school(
             &entrance_sources(graph, cost, entrances),
             &targets,
         );
+        reach.merge(&tree.reached());
     }
     let mut shared: HashMap<(u32, u64), Option<Route>> = HashMap::new();
     for &i in members {
@@ -303,7 +322,7 @@ pub fn reroute_school(
         nh.recommended = match (h.attachment, entrances.is_empty()) {
             (Some(att), false) => shared
                 .entry((att.edge, att.offset_m.to_bits()))
-                .or_insert_with(|| route_to_school(graph, &tree, cost, &att, entrances))
+                .or_insert_with(|| route_to_school(graph, tree, cost, &att, entrances))
                 .clone()
                 .map(|r| match &h.recommended {
                     Some(old)
@@ -339,8 +358,9 @@ pub fn reroute_school(
         entrances,
         members,
         &home_att,
-        &mut tree,
+        tree,
     );
+    reach.merge(&tree.reached());
     for ((i, nh, same), r) in out.iter_mut().zip(safe) {
         let old = homes
             .get(*i)
@@ -354,6 +374,22 @@ pub fn reroute_school(
 
 /// New home results and scores of the re-routed homes, by home index.
 type Evaluation = Vec<(usize, HomeResult, HomeScore)>;
+
+/// What trying one candidate found, and what it depended on: the schools it re-routed and
+/// the corners their trees reached (a later change elsewhere cannot alter it).
+#[derive(Debug, Clone)]
+struct Tried {
+    gained: f64,
+    cut: f64,
+    schools: Vec<usize>,
+    reach: Reached,
+}
+
+/// A graph and its streets, as one candidate sees them (the current network or a working
+/// copy with the candidate applied).
+type Net<'a> = (&'a PedGraph, &'a [Street]);
+/// Recommended-route edge costs and safe-route edge costs per kind of pupil.
+type Costs<'a> = (&'a [f64], &'a HashMap<Students, Vec<f64>>);
 
 struct State<'a> {
     out: &'a AuditOutput,
@@ -384,22 +420,23 @@ impl State<'_> {
             .map(|s| s.students)
             .unwrap_or_default()
     }
-    /// Schools whose current routes use any of `edges`.
-    fn touched(&self, edges: &BTreeSet<u32>) -> Vec<usize> {
-        let mut out = BTreeSet::new();
+    /// Per edge, the schools whose current recommended or shortest routes use it (sorted).
+    fn edge_schools(&self) -> HashMap<u32, Vec<usize>> {
+        let mut by_edge: HashMap<u32, Vec<usize>> = HashMap::new();
         for h in &self.homes {
             let Some(s) = h.assignment.school else {
                 continue;
             };
-            let uses = [&h.recommended, &h.shortest].iter().any(|r| {
-                r.as_ref()
-                    .is_some_and(|r| r.route.steps.iter().any(|st| edges.contains(&st.edge)))
-            });
-            if uses {
-                out.insert(s);
+            for r in [&h.recommended, &h.shortest].into_iter().flatten() {
+                for st in &r.route.steps {
+                    let v = by_edge.entry(st.edge).or_default();
+                    if !v.contains(&s) {
+                        v.push(s);
+                    }
+                }
             }
         }
-        out.into_iter().collect()
+        by_edge
     }
     /// Edges an upgrade changes.
     fn changed_edges(&self, up: Upgrade, edge: u32) -> BTreeSet<u32> {
@@ -428,41 +465,126 @@ impl State<'_> {
             }
         }
     }
+    /// The schools (sorted) whose current routes use any of `changed`.
+    fn schools_using(
+        &self,
+        by_edge: &HashMap<u32, Vec<usize>>,
+        changed: &BTreeSet<u32>,
+    ) -> Vec<usize> {
+        let mut schools: Vec<usize> = changed
+            .iter()
+            .filter_map(|e| by_edge.get(e))
+            .flatten()
+            .copied()
+            .collect();
+        schools.sort_unstable();
+        schools.dedup();
+        schools
+    }
+    /// Children gained and risk cut by one candidate, tried on `work` (a copy of the
+    /// current network, handed back as it was found); `None` if it changes no route.
+    fn try_candidate(
+        &self,
+        work: &mut (PedGraph, Vec<Street>, Tree),
+        by_edge: &HashMap<u32, Vec<usize>>,
+        (up, edge): (Upgrade, u32),
+    ) -> Option<Tried> {
+        let changed = self.changed_edges(up, edge);
+        let schools = self.schools_using(by_edge, &changed);
+        if schools.is_empty() {
+            return None;
+        }
+        let undo = apply(
+            up,
+            edge,
+            &mut work.0,
+            &mut work.1,
+            &self.out.config.score.plan,
+        );
+        if undo.is_empty() {
+            return None;
+        }
+        let net = (&work.0, work.1.as_slice());
+        let cost = self.costs_with(net, &changed);
+        let safe_cost = self.safe_costs_with(net, &changed);
+        let mut reach = Reached::default();
+        let eval = self.evaluate(
+            net,
+            &schools,
+            (&cost, &safe_cost),
+            &changed,
+            &mut work.2,
+            &mut reach,
+        );
+        revert(undo, &mut work.0, &mut work.1);
+        let (mut gained, mut cut) = (0.0, 0.0);
+        for (i, _, sc) in &eval {
+            let w = self.weight(*i);
+            let old = self.scores.get(*i).cloned().unwrap_or_default();
+            gained += w * (sc.safe_route as u8 as f64 - old.safe_route as u8 as f64);
+            cut += w * (old.risk - sc.risk);
+        }
+        Some(Tried {
+            gained,
+            cut,
+            schools,
+            reach,
+        })
+    }
+    /// Every candidate tried, in candidate order: on both cores natively (each worker on its
+    /// own copy of the network; the same figures as one thread), in turn in wasm.
+    fn try_all(
+        &self,
+        cands: &[(Upgrade, u32)],
+        by_edge: &HashMap<u32, Vec<usize>>,
+    ) -> Vec<Option<Tried>> {
+        let copy = || {
+            let tree = Tree::for_graph(&self.graph);
+            (self.graph.clone(), self.streets.clone(), tree)
+        };
+        #[cfg(not(target_arch = "wasm32"))]
+        {
+            use rayon::prelude::*;
+            // Few large jobs: each copies the network once.
+            let per_job = cands
+                .len()
+                .div_ceil(rayon::current_num_threads().max(1) * 4);
+            cands
+                .par_iter()
+                .with_min_len(per_job.max(1))
+                .map_init(copy, |work, &c| self.try_candidate(work, by_edge, c))
+                .collect()
+        }
+        #[cfg(target_arch = "wasm32")]
+        {
+            let mut work = copy();
+            cands
+                .iter()
+                .map(|&c| self.try_candidate(&mut work, by_edge, c))
+                .collect()
+        }
+    }
     /// Re-routes `schools` on the current graph: new home results and scores.
     /// Edge costs after a change to `changed` edges (the rest are unchanged).
-    fn costs_with(&self, changed: &BTreeSet<u32>) -> Vec<f64> {
+    fn costs_with(&self, net: Net, changed: &BTreeSet<u32>) -> Vec<f64> {
         let cfg = &self.out.config;
         let mut cost = self.cost.clone();
         for &k in changed {
-            if let (Some(c), Some(e)) = (cost.get_mut(k as usize), self.graph.edges.get(k as usize))
-            {
-                *c = crate::pipeline::edge_cost(
-                    &self.graph,
-                    e,
-                    &self.streets,
-                    cfg,
-                    RouteKind::Recommended,
-                );
+            if let (Some(c), Some(e)) = (cost.get_mut(k as usize), net.0.edges.get(k as usize)) {
+                *c = crate::pipeline::edge_cost(net.0, e, net.1, cfg, RouteKind::Recommended);
             }
         }
         cost
     }
     /// Safe-route costs after a change to `changed` edges.
-    fn safe_costs_with(&self, changed: &BTreeSet<u32>) -> HashMap<Students, Vec<f64>> {
+    fn safe_costs_with(&self, net: Net, changed: &BTreeSet<u32>) -> HashMap<Students, Vec<f64>> {
         let cfg = &self.out.config;
         let mut all = self.safe_cost.clone();
         for (students, cost) in all.iter_mut() {
             for &k in changed {
-                if let (Some(c), Some(e)) =
-                    (cost.get_mut(k as usize), self.graph.edges.get(k as usize))
+                if let (Some(c), Some(e)) = (cost.get_mut(k as usize), net.0.edges.get(k as usize))
                 {
-                    *c = crate::pipeline::safe_edge_cost(
-                        &self.graph,
-                        e,
-                        &self.streets,
-                        cfg,
-                        *students,
-                    );
+                    *c = crate::pipeline::safe_edge_cost(net.0, e, net.1, cfg, *students);
                 }
             }
         }
@@ -472,10 +594,12 @@ impl State<'_> {
     /// edges changed: new home results and scores (unchanged homes keep their scores).
     fn evaluate(
         &self,
+        net: Net,
         schools: &[usize],
-        cost: &[f64],
-        safe_cost: &HashMap<Students, Vec<f64>>,
+        (cost, safe_cost): Costs,
         changed: &BTreeSet<u32>,
+        tree: &mut Tree,
+        reach: &mut Reached,
     ) -> Evaluation {
         let cfg = &self.out.config;
         let mut out = Vec::new();
@@ -489,13 +613,21 @@ impl State<'_> {
             let members = self.members.get(s).map(|v| v.as_slice()).unwrap_or(&[]);
             let empty = Vec::new();
             let ctx = RouteContext {
-                graph: &self.graph,
-                streets: &self.streets,
+                graph: net.0,
+                streets: net.1,
                 config: cfg,
                 cost,
                 safe_cost: safe_cost.get(&self.students(s)).unwrap_or(&empty),
             };
-            let routed = reroute_school(&ctx, entrances, members, &self.homes, Some(changed));
+            let routed = reroute_school_in(
+                &ctx,
+                entrances,
+                members,
+                &self.homes,
+                Some(changed),
+                tree,
+                reach,
+            );
             for (i, nh, same) in routed {
                 let sc = match self.scores.get(i) {
                     Some(old) if same => old.clone(),
@@ -504,8 +636,8 @@ impl State<'_> {
                         nh.recommended.as_ref(),
                         nh.safe.as_ref(),
                         self.students(s),
-                        &self.graph,
-                        &self.streets,
+                        net.0,
+                        net.1,
                         cfg,
                     ),
                 };
@@ -620,8 +752,19 @@ fn candidates(st: &State, cfg: &PlanConfig) -> Vec<(Upgrade, u32)> {
 }
 
 /// Chooses up to `budget` upgrades greedily. Deterministic: ties go to the smaller
-/// (upgrade, edge).
+/// (upgrade, edge). A candidate's try is kept across rounds while no later choice could
+/// alter it (see [`plan_upgrades_afresh`], which tries every candidate every round).
 pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> Plan {
+    plan(out, scores, budget, true)
+}
+
+/// [`plan_upgrades`] trying every candidate again in every round: the reference its kept
+/// tries are tested against.
+pub fn plan_upgrades_afresh(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> Plan {
+    plan(out, scores, budget, false)
+}
+
+fn plan(out: &AuditOutput, scores: &[HomeScore], budget: usize, reuse: bool) -> Plan {
     let cfg = &out.config.score.plan;
     let mut members = vec![Vec::new(); out.layers.schools.len()];
     for (i, h) in out.homes.iter().enumerate() {
@@ -652,45 +795,88 @@ pub fn plan_upgrades(out: &AuditOutput, scores: &[HomeScore], budget: usize) -> 
     };
     let before = shares(&st, &st.scores);
     let mut steps = Vec::new();
+    // Tries of earlier rounds still valid: keyed by candidate.
+    let mut kept: HashMap<(Upgrade, u32), Tried> = HashMap::new();
     for rank in 1..=budget {
-        let mut best: Option<(f64, f64, Upgrade, u32, Evaluation)> = None;
-        for (up, edge) in candidates(&st, cfg) {
-            let changed = st.changed_edges(up, edge);
-            let schools = st.touched(&changed);
-            if schools.is_empty() {
-                continue;
-            }
-            let undo = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
-            if undo.is_empty() {
-                continue;
-            }
-            let cost = st.costs_with(&changed);
-            let safe_cost = st.safe_costs_with(&changed);
-            let eval = st.evaluate(&schools, &cost, &safe_cost, &changed);
-            revert(undo, &mut st.graph, &mut st.streets);
-            let mut gained = 0.0;
-            let mut cut = 0.0;
-            for (i, _, sc) in &eval {
-                let w = st.weight(*i);
-                let old = st.scores.get(*i).cloned().unwrap_or_default();
-                gained += w * (sc.safe_route as u8 as f64 - old.safe_route as u8 as f64);
-                cut += w * (old.risk - sc.risk);
-            }
+        let cands = candidates(&st, cfg);
+        let by_edge = st.edge_schools();
+        let fresh: Vec<(Upgrade, u32)> = cands
+            .iter()
+            .copied()
+            .filter(|&(up, edge)| {
+                !reuse
+                    || kept.get(&(up, edge)).is_none_or(|t| {
+                        t.schools != st.schools_using(&by_edge, &st.changed_edges(up, edge))
+                    })
+            })
+            .collect();
+        let mut tried = fresh.iter().copied().zip(st.try_all(&fresh, &by_edge));
+        let mut next = tried.next();
+        let mut best: Option<(f64, f64, usize)> = None;
+        for (k, c) in cands.iter().enumerate() {
+            let t = match next.take() {
+                Some((f, t)) if f == *c => {
+                    next = tried.next();
+                    match t {
+                        Some(t) => kept.entry(*c).insert_entry(t).into_mut().clone(),
+                        None => {
+                            kept.remove(c);
+                            continue;
+                        }
+                    }
+                }
+                other => {
+                    next = other;
+                    match kept.get(c) {
+                        Some(t) => t.clone(),
+                        None => continue,
+                    }
+                }
+            };
+            let (gained, cut) = (t.gained, t.cut);
             let better = match &best {
                 None => true,
-                Some((g, c, ..)) => gained > *g + 1e-9 || (gained > *g - 1e-9 && cut > *c + 1e-9),
+                Some((g, c, _)) => gained > *g + 1e-9 || (gained > *g - 1e-9 && cut > *c + 1e-9),
             };
             if better && (gained > 1e-9 || cut > 1e-9) {
-                best = Some((gained, cut, up, edge, eval));
+                best = Some((gained, cut, k));
             }
         }
-        let Some((gained, cut, up, edge, eval)) = best else {
+        let Some(&(up, edge)) = best.and_then(|b| cands.get(b.2)) else {
             break;
         };
-        let _ = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
+        let (gained, cut) = best.map_or((0.0, 0.0), |b| (b.0, b.1));
+        // The winner, applied for good and evaluated again (as it was tried: the same
+        // network, costs and schools), so no candidate's evaluation is kept meanwhile.
         let changed = st.changed_edges(up, edge);
-        st.cost = st.costs_with(&changed);
-        st.safe_cost = st.safe_costs_with(&changed);
+        let schools = st.schools_using(&by_edge, &changed);
+        let _ = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
+        let net = (&st.graph, st.streets.as_slice());
+        let cost = st.costs_with(net, &changed);
+        let safe_cost = st.safe_costs_with(net, &changed);
+        let mut tree = Tree::for_graph(net.0);
+        let mut reach = Reached::default();
+        let eval = st.evaluate(
+            net,
+            &schools,
+            (&cost, &safe_cost),
+            &changed,
+            &mut tree,
+            &mut reach,
+        );
+        // A kept try stays valid while its schools' homes are unchanged and no edge the
+        // winner changed touches a corner its trees reached.
+        let ends: Vec<u32> = changed
+            .iter()
+            .filter_map(|&k| st.graph.edges.get(k as usize))
+            .flat_map(|e| [e.a, e.b])
+            .collect();
+        kept.retain(|_, t| {
+            !t.schools.iter().any(|s| schools.contains(s))
+                && !ends.iter().any(|&c| t.reach.contains(c))
+        });
+        st.cost = cost;
+        st.safe_cost = safe_cost;
         for (i, nh, sc) in eval {
             if let (Some(h), Some(s)) = (st.homes.get_mut(i), st.scores.get_mut(i)) {
                 *h = nh;
