@@ -388,8 +388,10 @@ struct Tried {
 /// A graph and its streets, as one candidate sees them (the current network or a working
 /// copy with the candidate applied).
 type Net<'a> = (&'a PedGraph, &'a [Street]);
+/// Safe-route edge costs per kind of pupil.
+type SafeCosts = HashMap<Students, Vec<f64>>;
 /// Recommended-route edge costs and safe-route edge costs per kind of pupil.
-type Costs<'a> = (&'a [f64], &'a HashMap<Students, Vec<f64>>);
+type Costs<'a> = (&'a [f64], &'a SafeCosts);
 
 struct State<'a> {
     out: &'a AuditOutput,
@@ -504,14 +506,10 @@ impl State<'_> {
         if undo.is_empty() {
             return None;
         }
-        let net = (&work.0, work.1.as_slice());
-        let cost = self.costs_with(net, &changed);
-        let safe_cost = self.safe_costs_with(net, &changed);
         let mut reach = Reached::default();
-        let eval = self.evaluate(
-            net,
+        let (eval, _) = self.evaluate_applied(
+            (&work.0, work.1.as_slice()),
             &schools,
-            (&cost, &safe_cost),
             &changed,
             &mut work.2,
             &mut reach,
@@ -564,7 +562,21 @@ impl State<'_> {
                 .collect()
         }
     }
-    /// Re-routes `schools` on the current graph: new home results and scores.
+    /// [`Self::evaluate`] on `net`, where `changed` edges were just changed: the edge costs
+    /// are brought up to date first and returned with the evaluation.
+    fn evaluate_applied(
+        &self,
+        net: Net,
+        schools: &[usize],
+        changed: &BTreeSet<u32>,
+        tree: &mut Tree,
+        reach: &mut Reached,
+    ) -> (Evaluation, (Vec<f64>, SafeCosts)) {
+        let cost = self.costs_with(net, changed);
+        let safe_cost = self.safe_costs_with(net, changed);
+        let eval = self.evaluate(net, schools, (&cost, &safe_cost), changed, tree, reach);
+        (eval, (cost, safe_cost))
+    }
     /// Edge costs after a change to `changed` edges (the rest are unchanged).
     fn costs_with(&self, net: Net, changed: &BTreeSet<u32>) -> Vec<f64> {
         let cfg = &self.out.config;
@@ -577,7 +589,7 @@ impl State<'_> {
         cost
     }
     /// Safe-route costs after a change to `changed` edges.
-    fn safe_costs_with(&self, net: Net, changed: &BTreeSet<u32>) -> HashMap<Students, Vec<f64>> {
+    fn safe_costs_with(&self, net: Net, changed: &BTreeSet<u32>) -> SafeCosts {
         let cfg = &self.out.config;
         let mut all = self.safe_cost.clone();
         for (students, cost) in all.iter_mut() {
@@ -810,30 +822,17 @@ fn plan(out: &AuditOutput, scores: &[HomeScore], budget: usize, reuse: bool) -> 
                     })
             })
             .collect();
-        let mut tried = fresh.iter().copied().zip(st.try_all(&fresh, &by_edge));
-        let mut next = tried.next();
+        for (c, t) in fresh.iter().zip(st.try_all(&fresh, &by_edge)) {
+            match t {
+                Some(t) => kept.insert(*c, t),
+                None => kept.remove(c),
+            };
+        }
         let mut best: Option<(f64, f64, usize)> = None;
         for (k, c) in cands.iter().enumerate() {
-            let t = match next.take() {
-                Some((f, t)) if f == *c => {
-                    next = tried.next();
-                    match t {
-                        Some(t) => kept.entry(*c).insert_entry(t).into_mut().clone(),
-                        None => {
-                            kept.remove(c);
-                            continue;
-                        }
-                    }
-                }
-                other => {
-                    next = other;
-                    match kept.get(c) {
-                        Some(t) => t.clone(),
-                        None => continue,
-                    }
-                }
+            let Some(&Tried { gained, cut, .. }) = kept.get(c) else {
+                continue;
             };
-            let (gained, cut) = (t.gained, t.cut);
             let better = match &best {
                 None => true,
                 Some((g, c, _)) => gained > *g + 1e-9 || (gained > *g - 1e-9 && cut > *c + 1e-9),
@@ -842,27 +841,23 @@ fn plan(out: &AuditOutput, scores: &[HomeScore], budget: usize, reuse: bool) -> 
                 best = Some((gained, cut, k));
             }
         }
-        let Some(&(up, edge)) = best.and_then(|b| cands.get(b.2)) else {
+        let Some((gained, cut, &(up, edge))) =
+            best.and_then(|(g, c, k)| Some((g, c, cands.get(k)?)))
+        else {
             break;
         };
-        let (gained, cut) = best.map_or((0.0, 0.0), |b| (b.0, b.1));
         // The winner, applied for good and evaluated again (as it was tried: the same
         // network, costs and schools), so no candidate's evaluation is kept meanwhile.
         let changed = st.changed_edges(up, edge);
         let schools = st.schools_using(&by_edge, &changed);
         let _ = apply(up, edge, &mut st.graph, &mut st.streets, cfg);
-        let net = (&st.graph, st.streets.as_slice());
-        let cost = st.costs_with(net, &changed);
-        let safe_cost = st.safe_costs_with(net, &changed);
-        let mut tree = Tree::for_graph(net.0);
-        let mut reach = Reached::default();
-        let eval = st.evaluate(
-            net,
+        let mut tree = Tree::for_graph(&st.graph);
+        let (eval, (cost, safe_cost)) = st.evaluate_applied(
+            (&st.graph, st.streets.as_slice()),
             &schools,
-            (&cost, &safe_cost),
             &changed,
             &mut tree,
-            &mut reach,
+            &mut Reached::default(),
         );
         // A kept try stays valid while its schools' homes are unchanged and no edge the
         // winner changed touches a corner its trees reached.
