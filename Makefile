@@ -45,6 +45,7 @@ build: setup-rust
 
 # Audits the demo town with the CLI (what `make run` does until the page is built).
 cli-demo: build
+	@mkdir -p out
 	$(BIN) audit --streets $(DEMO)/streets.geojson --schools $(DEMO)/schools.geojson \
 		--homes $(DEMO)/homes.geojson --crossings $(DEMO)/crossings.geojson \
 		--catchments $(DEMO)/catchments.geojson --out out/demo-town
