@@ -226,7 +226,8 @@ struct AuditDoc<'a> {
     homes_csv: String,
     catchments_csv: String,
     hotspots_csv: String,
-    routes: export::layers_geojson::Collection<export::layers_geojson::RouteProps<'a>>,
+    /// Which held audit this is: [`route_lines`] draws its routes (the document carries none).
+    audit_id: u32,
     qa: Value,
     centrelines: export::layers_geojson::Collection<export::layers_geojson::SegmentProps<'a>>,
     hotspots: export::hotspots::HotspotCollection<'a>,
@@ -237,13 +238,16 @@ struct AuditDoc<'a> {
     reaudit: Option<Value>,
     /// CSV on the Web metadata of each CSV (columns, units, caution), by metadata file name.
     csv_metadata: serde_json::Map<String, Value>,
+    /// The worker's wasm memory when the document was written, in bytes (wasm memory only
+    /// grows: this is the core's peak so far, held audits included).
+    core_memory_bytes: usize,
 }
 
 /// Runs the audit. `layers_json`: `{streets, crossings?, schools, homes, homes_format?,
 /// catchments?, crashes?, preset?, mapping?, names?, crs?}` with each layer as text (binary files
 /// first through [`layer_to_geojson`]); `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
-/// catchments and hotspots CSV tables, routes, QA, centrelines, hotspots, the validated layers and the warnings. An error comes
+/// catchments and hotspots CSV tables, the id of the held audit (routes come from [`route_lines`]), QA, centrelines, hotspots, the validated layers and the warnings. An error comes
 /// back as `{message, at}` JSON.
 #[wasm_bindgen]
 pub fn audit(
@@ -252,23 +256,117 @@ pub fn audit(
     progress: &js_sys::Function,
 ) -> Result<String, JsValue> {
     let out = run(layers_json, config_json, progress)?;
-    let doc = audit_doc(&out, None)?;
-    LAST_AUDIT.with(|last| *last.borrow_mut() = Some(out));
-    Ok(doc)
+    HELD.with(|held| {
+        let mut held = held.borrow_mut();
+        held.audits.clear();
+        let id = held.hold(out);
+        held.audits
+            .last()
+            .map_or(Ok(String::new()), |(_, out)| audit_doc(out, id, None))
+    })
+}
+
+/// At most how many audits the worker holds: the page releases each one it stops showing
+/// ([`release_audit`]; it keeps four views), so this only bounds memory should it not.
+const HELD_AUDITS: usize = 8;
+
+/// The audits the worker holds, oldest first; the first is the full audit the rest re-audit.
+#[derive(Default)]
+struct Held {
+    next_id: u32,
+    audits: Vec<(u32, AuditOutput)>,
+}
+
+impl Held {
+    /// Holds `out` as the latest audit, letting go of the oldest re-audit past the limit.
+    fn hold(&mut self, out: AuditOutput) -> u32 {
+        self.next_id += 1;
+        self.audits.push((self.next_id, out));
+        while self.audits.len() > HELD_AUDITS {
+            self.audits.remove(1);
+        }
+        self.next_id
+    }
 }
 
 thread_local! {
-    /// The last audit, which [`reaudit`] starts from (the worker is single-threaded).
-    static LAST_AUDIT: std::cell::RefCell<Option<AuditOutput>> = const { std::cell::RefCell::new(None) };
+    /// The audits [`reaudit`] starts from and [`route_lines`] reads (the worker is
+    /// single-threaded).
+    static HELD: std::cell::RefCell<Held> = std::cell::RefCell::new(Held::default());
 }
 
-fn audit_doc(out: &AuditOutput, extra: Option<Value>) -> Result<String, JsValue> {
+/// Lets go of a held audit the page no longer shows (the full audit the others re-audit stays
+/// until the next full audit).
+#[wasm_bindgen(js_name = releaseAudit)]
+pub fn release_audit(audit_id: u32) {
+    HELD.with(|held| {
+        let mut held = held.borrow_mut();
+        if let Some(i) = held.audits.iter().position(|(id, _)| *id == audit_id) {
+            if i > 0 {
+                held.audits.remove(i);
+            }
+        }
+    });
+}
+
+/// Which routes the page asks for: one home's, or one school's homes' (all when both empty).
+#[derive(Deserialize, Default)]
+struct RouteQuery {
+    #[serde(default)]
+    homes: Vec<String>,
+    #[serde(default)]
+    school: Option<String>,
+    /// Route kinds to draw (`shortest`, `recommended`, `safe`); empty for all three.
+    #[serde(default)]
+    kinds: Vec<String>,
+}
+
+/// The routes of a held audit as GeoJSON text: `query_json` is `{homes?: [id], school?: id,
+/// kinds?: [kind]}` (`{}` for every route, as `routes.geojson`). The audit document carries no
+/// route lines, so a district's page never parses every home's routes at once.
+#[wasm_bindgen(js_name = routeLines)]
+pub fn route_lines(audit_id: u32, query_json: &str) -> Result<String, JsValue> {
+    let q: RouteQuery = if query_json.trim().is_empty() {
+        RouteQuery::default()
+    } else {
+        serde_json::from_str(query_json).map_err(to_js)?
+    };
+    HELD.with(|held| {
+        let held = held.borrow();
+        let Some((_, out)) = held.audits.iter().find(|(id, _)| *id == audit_id) else {
+            return Err(to_js(format!(
+                "audit {audit_id} is no longer held by the worker: run it again to draw its routes"
+            )));
+        };
+        let school = match &q.school {
+            Some(id) => Some(
+                out.layers
+                    .schools
+                    .iter()
+                    .position(|s| &s.id == id)
+                    .ok_or_else(|| to_js(format!("no school with id \"{id}\" in this audit")))?,
+            ),
+            None => None,
+        };
+        let homes: std::collections::HashSet<&str> = q.homes.iter().map(String::as_str).collect();
+        let keep_home = |i: usize| {
+            (homes.is_empty() || homes.contains(out.layers.homes[i].id.as_str()))
+                && (school.is_none() || out.homes[i].assignment.school == school)
+        };
+        let keep_kind = |k: crate::route::RouteKind| {
+            q.kinds.is_empty() || q.kinds.iter().any(|x| x == k.as_str())
+        };
+        serde_json::to_string(&export::routes_geojson_of(out, keep_home, keep_kind)).map_err(to_js)
+    })
+}
+
+fn audit_doc(out: &AuditOutput, audit_id: u32, extra: Option<Value>) -> Result<String, JsValue> {
     let doc = AuditDoc {
         summary: export::summary_json(out),
         homes_csv: export::homes_csv(out),
         catchments_csv: export::catchments_csv(out),
         hotspots_csv: export::hotspots_csv(out),
-        routes: export::routes_geojson(out),
+        audit_id,
         qa: export::qa_geojson(&out.network.qa),
         centrelines: export::centrelines_geojson(out),
         hotspots: export::hotspots_geojson(out),
@@ -285,6 +383,7 @@ fn audit_doc(out: &AuditOutput, extra: Option<Value>) -> Result<String, JsValue>
         warnings: &out.warnings,
         reaudit: extra,
         csv_metadata: export::csvw::audit_metadata().into_iter().collect(),
+        core_memory_bytes: core::arch::wasm32::memory_size(0) * 65536,
     };
     serde_json::to_string(&doc).map_err(to_js)
 }
@@ -305,17 +404,23 @@ pub fn reaudit(
     } else {
         crate::scenario::read::read_interventions(interventions_geojson).map_err(error_to_js)?
     };
-    let result = LAST_AUDIT.with(|last| match last.borrow().as_ref() {
-        Some(prev) => crate::scenario::reaudit::reaudit(prev, list, &mut p).map_err(error_to_js),
+    let result = HELD.with(|held| match held.borrow().audits.last() {
+        Some((_, prev)) => {
+            crate::scenario::reaudit::reaudit(prev, list, &mut p).map_err(error_to_js)
+        }
         None => Err(to_js("run an audit before a re-audit")),
     })?;
     let (out, stats) = result;
     let core_ms = js_sys::Date::now() - t0;
     let mut extra = serde_json::to_value(stats).map_err(to_js)?;
     extra["core_ms"] = json!(core_ms);
-    let doc = audit_doc(&out, Some(extra))?;
-    LAST_AUDIT.with(|last| *last.borrow_mut() = Some(out));
-    Ok(doc)
+    HELD.with(|held| {
+        let mut held = held.borrow_mut();
+        let id = held.hold(out);
+        held.audits.last().map_or(Ok(String::new()), |(_, out)| {
+            audit_doc(out, id, Some(extra))
+        })
+    })
 }
 
 /// Compares two audits' `homes_csv` (before, after) per catchment, as `catchwalk compare`

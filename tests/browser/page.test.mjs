@@ -112,6 +112,16 @@ test('served page: demo town, a home, CSV export, settings, a user file, cancel'
   const exported = readFileSync(await dl.path(), 'utf8');
   const { numeric } = assertSameHomesCsv(exported, cliCsv, 1e-9);
   assert.ok(numeric > 390 * 20);
+  // Every home's routes (ticked): the worker writes them when asked; the audit document has none.
+  const [dlr] = await Promise.all([page.waitForEvent('download'), page.click('#x-routes')]);
+  const perHome = JSON.parse(readFileSync(await dlr.path(), 'utf8'));
+  const lengthsBy = (kind) => new Map(perHome.features.filter((f) => f.properties.kind === kind).map((f) => [f.properties.home_id, f.properties.network_m]));
+  const recommended = lengthsBy('recommended');
+  assert.equal(recommended.size, [...rows.values()].filter((r) => r.recommended_network_m !== '').length, 'one recommended route per routed home');
+  for (const r of rows.values()) if (r.recommended_network_m !== '') assert.ok(Math.abs(recommended.get(r.home_id) - Number(r.recommended_network_m)) < 0.01, `home ${r.home_id}: the exported route is the CLI's`);
+  assert.ok(perHome.features.every((f) => f.geometry.type === 'LineString' && f.geometry.coordinates.length >= 2), 'each route is a line');
+  assert.ok(/Screening tool/.test(perHome.caution));
+  assert.ok(!(await page.evaluate(() => window.catchwalk.view().docKeys)).includes('routes'), 'the audit document carries no route lines');
   // The catchment and hotspot tables are the command line's, figure for figure.
   for (const [button, file] of [['#x-catchments', 'catchments.csv'], ['#x-hotspots-csv', 'hotspots.csv']]) {
     const [d] = await Promise.all([page.waitForEvent('download'), page.click(button)]);

@@ -1,9 +1,11 @@
 // Times the page on an invented district: a street grid of about 100 000 segments, schools
 // and homes, loaded through the file pickers of the served page in Debian's Chromium.
 // Usage: node www/bench/district-page.mjs [grid_side=224] [homes=5000] [schools=10]
-// Prints the page's audit time (core and page), the result's size and the map's draw time.
+// Prints the page's audit time (core and page), the map's draw time, the time to show one
+// home's and one catchment's routes (asked of the worker), and the peak memory of Chromium's
+// renderer processes (the tab and its worker) read from /proc.
 
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { guardedPage, launch } from '../../tests/browser/helpers.mjs';
@@ -44,6 +46,20 @@ for (let h = 0; h < nHomes; h++)
 const fc = (features) => JSON.stringify({ type: 'FeatureCollection', features });
 for (const [k, f] of Object.entries({ streets, crossings, schools, homes })) writeFileSync(join(dir, `${k}.geojson`), fc(f));
 
+/** Peak resident memory (VmHWM, MB) summed over Chromium's renderer processes. */
+function rendererPeakMb() {
+  let kb = 0;
+  for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
+    try {
+      const cmd = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
+      if (!cmd.includes('chromium') || !cmd.includes('--type=renderer')) continue;
+      const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
+      if (m) kb += Number(m[1]);
+    } catch { /* the process ended */ }
+  }
+  return Math.round(kb / 1024);
+}
+
 const server = await serve(join(here, '..', 'build'), 0);
 const browser = await launch();
 try {
@@ -53,10 +69,31 @@ try {
   for (const k of ['catchments', 'crossings']) if (await page.locator(`[data-layer="${k}"] button.link`).count()) await page.click(`[data-layer="${k}"] button.link`);
   for (const k of ['streets', 'crossings', 'schools', 'homes']) await page.setInputFiles(`#file-${k}`, join(dir, `${k}.geojson`));
   await page.waitForFunction((n) => document.getElementById('status')?.textContent?.startsWith(`${n} homes`), nHomes, { timeout: 600_000 });
-  const r = await page.evaluate(() => ({ total: Number(document.body.dataset.auditMs), core: Number(document.body.dataset.coreMs) }));
+  const r = await page.evaluate(() => ({ total: Number(document.body.dataset.auditMs), core: Number(document.body.dataset.coreMs),
+    mainHeapMb: Math.round(performance.memory.usedJSHeapSize / 2 ** 20), coreMb: Math.round((window.catchwalk.view().summary && window.catchwalk.coreMemory()) / 2 ** 20) }));
   const t0 = Date.now();
   await page.evaluate(() => new Promise((ok) => window.catchwalk.map.once('idle', ok)));
-  console.log(JSON.stringify({ segments: streets.length, homes: nHomes, schools: nSchools, page_audit_ms: r.total, core_ms: r.core, map_idle_after_ms: Date.now() - t0, outside_requests: leaks.length }));
+  const mapIdle = Date.now() - t0;
+  // One home's routes, then one catchment's, asked of the worker and drawn.
+  const drawn = () => page.evaluate(() => Number(document.body.dataset.routesDrawn ?? -1));
+  const t1 = Date.now();
+  await page.evaluate(() => window.catchwalk.select('home', 'H17'));
+  await page.waitForFunction(() => document.body.dataset.routesDrawn !== undefined, null, { timeout: 60_000 });
+  const homeMs = Date.now() - t1;
+  const homeRoutes = await drawn();
+  // A second home, once the map has settled from the first.
+  await page.evaluate(() => new Promise((ok) => window.catchwalk.map.once('idle', ok)));
+  const t3 = Date.now();
+  await page.evaluate(() => window.catchwalk.select('home', 'H18'));
+  await page.waitForFunction(() => document.body.dataset.routesDrawn !== undefined, null, { timeout: 60_000 });
+  const home2Ms = Date.now() - t3;
+  const t2 = Date.now();
+  await page.evaluate(() => window.catchwalk.select('catchment', 'S3'));
+  await page.waitForFunction(() => document.body.dataset.routesDrawn !== undefined, null, { timeout: 60_000 })
+    .catch(async (e) => { throw new Error(`${e.message}; selection: ${await page.textContent('#selection')}`); });
+  const schoolMs = Date.now() - t2;
+  console.log(JSON.stringify({ segments: streets.length, homes: nHomes, schools: nSchools, page_audit_ms: r.total, core_ms: r.core, map_idle_after_ms: mapIdle,
+    home_routes_ms: homeMs, home_routes: homeRoutes, second_home_routes_ms: home2Ms, catchment_routes_ms: schoolMs, catchment_routes: await drawn(), renderer_peak_mb: rendererPeakMb(), page_js_heap_mb: r.mainHeapMb, worker_wasm_mb: r.coreMb, outside_requests: leaks.length }));
 } finally {
   await browser.close();
   server.close();

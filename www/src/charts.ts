@@ -126,7 +126,7 @@ export function drawCharts(view: View) {
 
   // Route lengths, weighted by children, in 200 m bins, the walk zone marked.
   const bin = 200;
-  const lens = view.homes.filter((h) => h.shortest).map((h) => ({ m: h.shortest?.properties.network_m ?? 0, w: h.children }));
+  const lens = view.homes.filter((h) => h.shortestM !== null).map((h) => ({ m: h.shortestM ?? 0, w: h.children }));
   const top = Math.max(view.walkZoneM * 1.5, ...lens.map((l) => l.m));
   const nb = Math.max(1, Math.ceil(top / bin));
   const counts = new Array(nb).fill(0);

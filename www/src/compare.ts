@@ -32,6 +32,8 @@ export interface CompareEvents {
   compare: (beforeCsv: string, afterCsv: string) => Promise<Comparison>;
   options: () => { value: number; label: string }[];
   selectHome: (id: string) => void;
+  /** A home's recommended route in an audit, asked of the worker (null: none). */
+  recommended: (v: View, homeId: string) => Promise<Feature | null>;
 }
 
 const ROWS: [keyof Figures, string, (x: number | null) => string][] = [
@@ -105,16 +107,20 @@ export class Compare {
     this.draw(id);
   }
 
-  draw(id: string | null) {
-    if (!id || !this.views) { this.map.showComparison([]); return; }
+  async draw(id: string | null) {
+    const seq = ++this.drawSeq;
+    if (!id || !this.views) { this.drawn = 0; this.map.showComparison([]); return; }
     const [b, a] = this.views;
-    const rb = b.byId.get(id)?.recommended, ra = a.byId.get(id)?.recommended;
+    const [rb, ra] = await Promise.all([this.ev.recommended(b, id), this.ev.recommended(a, id)]).catch(() => [null, null]);
+    if (seq !== this.drawSeq) return;
     const routes: Feature[] = [];
     if (rb) routes.push({ ...rb, properties: { kind: 'before' } } as Feature);
     if (ra) routes.push({ ...ra, properties: { kind: 'after' } } as Feature);
     this.drawn = routes.length;
     this.map.showComparison(routes);
   }
+
+  private drawSeq = 0;
 
   /** How many comparison routes are drawn (for the tests). */
   drawn = 0;

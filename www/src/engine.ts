@@ -1,7 +1,7 @@
 // The page's side of the audit worker: starts it, hands it the compiled core, runs audits,
 // and cancels by terminating the worker and starting a fresh one.
 
-import type { FromWorker, ToWorker } from './types';
+import type { FeatureCollection, FromWorker, RouteProps, ToWorker } from './types';
 
 /** What the build inlines into the single-file page (absent when served as files). */
 export interface Inline {
@@ -69,6 +69,13 @@ export function utf8Text(name: string, bytes: ArrayBuffer): string {
 
 export function isBinaryLayer(name: string): boolean {
   return /\.(zip|pbf)$/i.test(name);
+}
+
+/** Which routes to draw: `homes` (ids), or a `school`'s homes, of the `kinds` given. */
+export interface RouteQuery {
+  homes?: string[];
+  school?: string;
+  kinds?: ('shortest' | 'recommended' | 'safe')[];
 }
 
 export class Engine {
@@ -155,6 +162,22 @@ export class Engine {
   /** Re-audits the last audit with a scenario's interventions (GeoJSON text; '' for none). */
   reaudit(interventions: string, onProgress: (p: Progress) => void): Promise<AuditResult> {
     return this.send((id) => ({ type: 'reaudit', id, interventions }), onProgress);
+  }
+
+  /** Route lines of the audit `auditId` the worker holds, as GeoJSON: `homes` (ids), or a
+   * `school`'s homes, of the `kinds` given (all three when empty); `{}` for every route. */
+  async routes(auditId: number, query: RouteQuery): Promise<FeatureCollection<RouteProps>> {
+    return JSON.parse(await this.routesText(auditId, query)) as FeatureCollection<RouteProps>;
+  }
+
+  /** [`routes`] as the core's GeoJSON text (an export saves it as it is). */
+  async routesText(auditId: number, query: RouteQuery): Promise<string> {
+    return (await this.send((id) => ({ type: 'routes', id, audit: auditId, query: JSON.stringify(query) }), () => {})).docText;
+  }
+
+  /** Lets the worker drop a held audit the page no longer shows. */
+  release(auditId: number): void {
+    this.send((id) => ({ type: 'release', id, audit: auditId }), () => {}).catch(() => {});
   }
 
   /** The core's comparison of two audits' homes.csv (before, after), as JSON text. */

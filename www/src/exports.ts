@@ -9,10 +9,9 @@ import type { FeatureCollection } from './types';
 
 const stamp = () => new Date().toISOString().slice(0, 10);
 
-/** Routes: every home's two routes (individual), or figures per catchment (shared). */
-export function routesExport(view: View, catchmentFile: FeatureCollection | null, individual: boolean): FeatureCollection {
+/** Routes shared: figures per catchment on its polygon, no single home. */
+export function routesExport(view: View, catchmentFile: FeatureCollection | null): FeatureCollection {
   const caution = view.doc.summary.caution;
-  if (individual) return { ...view.doc.routes, caution };
   const idOf = new Map(view.doc.layers.catchments.map((c) => [c.feature, c.school_id]));
   const rows = new Map(view.catchments.map((c) => [c.schoolId, c]));
   const features = (catchmentFile?.features ?? []).map((f, i) => {
@@ -40,9 +39,11 @@ export function catchmentsCsv(view: View): string {
   return toCsv(header, rows); // the caution: the report and the core's CSV metadata
 }
 
-export function saveRoutes(view: View, file: FeatureCollection | null, individual: boolean) {
-  const name = individual ? `catchwalk-routes-by-home-${stamp()}.geojson` : `catchwalk-routes-by-catchment-${stamp()}.geojson`;
-  download(name, JSON.stringify(routesExport(view, file, individual)), 'application/geo+json');
+/** Saves the routes: every home's routes (individual; `allRoutes` asks the worker for the
+ * core's routes.geojson, caution included), or figures per catchment (shared). */
+export async function saveRoutes(view: View, file: FeatureCollection | null, individual: boolean, allRoutes: () => Promise<string>) {
+  if (individual) download(`catchwalk-routes-by-home-${stamp()}.geojson`, await allRoutes(), 'application/geo+json');
+  else download(`catchwalk-routes-by-catchment-${stamp()}.geojson`, JSON.stringify(routesExport(view, file)), 'application/geo+json');
 }
 
 export function saveHotspots(view: View) {

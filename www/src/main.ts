@@ -5,7 +5,7 @@ import { $, download, el } from './dom';
 import { Engine, utf8Text } from './engine';
 import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
-import { buildView, type View } from './model';
+import { buildView, routesByHome, type View } from './model';
 import { DEVICES, HOME_STATUS, PATH_COLOR, QA_COLOR, ROUTE_STYLE, SPEED_BANDS, deficitColor, deviceImage } from './palette';
 import { buildReport } from './report';
 import { catchmentPanel, districtPanel, homePanel } from './selection';
@@ -70,7 +70,10 @@ function keep(key: string, v: View) {
   while (views.size > VIEW_CACHE) {
     const old = [...views.keys()].find((k) => k !== '' && k !== key);
     if (old === undefined) break;
+    const gone = views.get(old);
     views.delete(old);
+    // The worker holds each view's audit for its routes; this one is no longer shown.
+    if (gone && ![...views.values()].some((x) => x.doc.audit_id === gone.doc.audit_id)) engine.release(gone.doc.audit_id);
   }
 }
 const scenarios = new Scenarios(map, { changed: () => { runScenario(); changed(); }, view: () => view, status: setStatus });
@@ -95,6 +98,7 @@ const compare = new Compare(map, {
   compare: async (b: string, a: string) => JSON.parse((await engine.compare(b, a)).docText) as Comparison,
   options: () => [{ value: -1, label: 'Existing network' }, ...scenarios.list.map((x, i) => ({ value: i, label: x.name }))],
   selectHome: (id: string) => select('home', id),
+  recommended: async (v: View, homeId: string) => (await engine.routes(v.doc.audit_id, { homes: [homeId], kinds: ['recommended'] })).features[0] ?? null,
 });
 const autosave = new Autosave(
   (at) => {
@@ -420,20 +424,10 @@ function renderMessages(warnings: Message[], qa: FeatureCollection | null, error
 
 // ---------- selection ----------
 
-function select(kind: 'home' | 'catchment', id: string) {
+function select(kind: 'home' | 'catchment', id: string, fit = true) {
   selected = { kind, id };
-  reselect();
+  reselect(fit);
   showTab('sel');
-  if (!view) return;
-  if (kind === 'home') {
-    const h = view.byId.get(id);
-    const routes = [h?.shortest, h?.recommended, h?.safe].filter((x): x is NonNullable<typeof x> => !!x) as Feature[];
-    if (routes.length) map.fit(routes, 17);
-  } else {
-    const routes = view.homes.filter((h) => h.schoolId === id && h.recommended).map((h) => h.recommended as Feature);
-    const poly = layerJson('catchments')?.features.filter((_, i) => view?.doc.layers.catchments.find((c) => c.feature === i)?.school_id === id) ?? [];
-    map.fit(poly.length ? poly : routes, 16);
-  }
 }
 
 /** The find box's choice: the map goes there and the panel shows it. */
@@ -442,7 +436,7 @@ function found(f: Found) {
   map.showFound(f.features);
   if (f.kind === 'home') return select('home', f.key);
   if (f.kind === 'school') {
-    select('catchment', f.key);
+    select('catchment', f.key, false);
     map.fit(f.features, 16);
     return;
   }
@@ -466,26 +460,55 @@ function found(f: Found) {
   }
 }
 
-function reselect() {
+/** Counts redraws of the selection: a worker's answer for an older one is dropped. */
+let selectionDrawn = 0;
+
+/** Shows the selection's panel and asks the worker for its routes (the audit document carries
+ * none); `fit` moves the map to them. */
+function reselect(fit = false) {
   const host = $('selection');
+  const token = ++selectionDrawn;
+  delete document.body.dataset.routesDrawn;
   if (!view || !selected) {
     map.showRoutes([], null);
     if (view) host.replaceChildren(districtPanel(view));
     return;
   }
+  const v = view;
+  const failed = (e: unknown) => {
+    if (token !== selectionDrawn) return;
+    let message = String((e as Error)?.message ?? e);
+    try { message = (JSON.parse(message) as { message: string }).message; } catch { /* plain text */ }
+    host.append(el('p', { class: 'error' }, `The routes could not be drawn: ${message}`));
+  };
   if (selected.kind === 'home') {
-    const h = view.byId.get(selected.id);
+    const h = v.byId.get(selected.id);
     if (!h) { host.replaceChildren(el('p', { class: 'muted' }, 'That home is not in this audit.')); return; }
-    host.replaceChildren(homePanel(view, h));
-    map.showRoutes([h.safe, h.shortest, h.recommended].filter((x): x is NonNullable<typeof x> => !!x) as Feature[], h.at);
-    map.setCatchments(view, layerJson('catchments'), null);
+    host.replaceChildren(el('h3', {}, `Home ${h.id}`), el('p', { class: 'muted' }, 'Drawing its routes…'));
+    map.setCatchments(v, layerJson('catchments'), null);
+    engine.routes(v.doc.audit_id, { homes: [h.id] }).then((fc) => {
+      if (token !== selectionDrawn) return;
+      const r = routesByHome(fc).get(h.id) ?? { shortest: null, recommended: null, safe: null };
+      host.replaceChildren(homePanel(v, h, r));
+      const lines = [r.safe, r.shortest, r.recommended].filter((x): x is NonNullable<typeof x> => !!x) as Feature[];
+      map.showRoutes(lines, h.at);
+      document.body.dataset.routesDrawn = String(lines.length);
+      if (fit && lines.length) map.fit(lines, 17);
+    }).catch(failed);
   } else {
-    const c = view.catchments.find((x) => x.schoolId === selected?.id);
+    const c = v.catchments.find((x) => x.schoolId === selected?.id);
     if (!c) return;
-    host.replaceChildren(catchmentPanel(view, c));
+    host.replaceChildren(catchmentPanel(v, c));
     const id = selected.id;
-    map.showRoutes(view.homes.filter((h) => h.schoolId === id && h.recommended).map((h) => h.recommended as Feature), null);
-    map.setCatchments(view, layerJson('catchments'), id);
+    map.setCatchments(v, layerJson('catchments'), id);
+    const poly = layerJson('catchments')?.features.filter((_, i) => v.doc.layers.catchments.find((x) => x.feature === i)?.school_id === id) ?? [];
+    if (fit && poly.length) map.fit(poly, 16);
+    engine.routes(v.doc.audit_id, { school: id, kinds: ['recommended'] }).then((fc) => {
+      if (token !== selectionDrawn) return;
+      map.showRoutes(fc.features as Feature[], null);
+      document.body.dataset.routesDrawn = String(fc.features.length);
+      if (fit && !poly.length && fc.features.length) map.fit(fc.features as Feature[], 16);
+    }).catch(failed);
   }
 }
 
@@ -665,7 +688,10 @@ const syncPrivacy = () => {
 };
 includeHomes.addEventListener('change', syncPrivacy);
 syncPrivacy();
-$('x-routes').addEventListener('click', () => view && saveRoutes(view, layerJson('catchments'), includeHomes.checked));
+$('x-routes').addEventListener('click', () => {
+  const v = view;
+  if (v) saveRoutes(v, layerJson('catchments'), includeHomes.checked, () => engine.routesText(v.doc.audit_id, {})).catch((e) => setStatus(`The routes could not be saved: ${(e as Error).message}`));
+});
 $('x-hotspots').addEventListener('click', () => view && saveHotspots(view));
 $('x-catchments').addEventListener('click', () => view && saveCatchments(view));
 $('x-hotspots-csv').addEventListener('click', () => view && saveHotspotsCsv(view));
@@ -744,10 +770,11 @@ $('basemap-clear').addEventListener('click', () => { basemapInput.value = ''; lo
   homes: () => view?.homes.map((h) => ({ id: h.id, at: h.at, status: h.status, schoolId: h.schoolId })) ?? [],
   catchmentsCsv: () => view && catchmentsCsv(view),
   state: () => JSON.parse(JSON.stringify(pageState())) as PageState,
-  view: () => view && { catchments: view.catchments, summary: view.doc.summary, reaudit: view.doc['reaudit'] ?? null, homesCsv: view.doc.homes_csv },
+  view: () => view && { catchments: view.catchments, summary: view.doc.summary, reaudit: view.doc['reaudit'] ?? null, homesCsv: view.doc.homes_csv, docKeys: Object.keys(view.doc) },
   hotspots: () => view?.hotspots.slice(0, 20).map((h) => ({ properties: h.properties, geometry: h.geometry })) ?? [],
   comparison: () => compare.last?.comparison ?? null,
   comparisonRoutes: () => compare.drawn,
+  coreMemory: () => Number(view?.doc['core_memory_bytes'] ?? 0),
   flushSave: () => autosave.flush(),
   project: projectCard,
   download,

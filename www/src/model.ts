@@ -1,8 +1,28 @@
-// The page's view of one audit: homes with their two routes, catchment rows, hotspots.
-// Figures come from the core; the page only groups them for display.
+// The page's view of one audit: homes with their figures, catchment rows, hotspots.
+// Figures come from the core; the page only groups them for display. Route lines stay in the
+// worker: the page asks for one home's or one catchment's when it draws them (`Engine.routes`).
 
 import { csvObjects } from './csv';
 import type { AuditDoc, Feature, FeatureCollection, LonLat, RouteProps } from './types';
+
+/** A home's three routes as the worker draws them (null where the home has none). */
+export interface Routes {
+  shortest: Feature<RouteProps> | null;
+  recommended: Feature<RouteProps> | null;
+  safe: Feature<RouteProps> | null;
+}
+
+/** A routes collection from the worker, by home id. */
+export function routesByHome(fc: FeatureCollection<RouteProps>): Map<string, Routes> {
+  const out = new Map<string, Routes>();
+  for (const f of fc.features) {
+    const id = f.properties.home_id;
+    const e = out.get(id) ?? { shortest: null, recommended: null, safe: null };
+    e[f.properties.kind] = f;
+    out.set(id, e);
+  }
+  return out;
+}
 
 export type HomeStatus = 'safe' | 'unsafe' | 'hazardous' | 'beyond' | 'unreached';
 
@@ -12,10 +32,10 @@ export interface HomeView {
   at: LonLat;
   children: number;
   schoolId: string | null;
-  shortest: Feature<RouteProps> | null;
-  recommended: Feature<RouteProps> | null;
-  /** The shortest route no safety rule flags (cores that score routes draw it). */
-  safe: Feature<RouteProps> | null;
+  /** The shortest route's length along the network (null: no route found). */
+  shortestM: number | null;
+  /** Both the shortest and the recommended route were found. */
+  routed: boolean;
   status: HomeStatus;
   reasons: string[];
   /** The home's row of the core's homes.csv (score columns: active minutes, waits, ...). */
@@ -57,43 +77,36 @@ const num = (v: unknown): number | null => {
   return isFinite(n) ? n : null;
 };
 
-/** The core's verdict on a recommended route, when the core scores routes. */
-function coreVerdict(r: RouteProps): { status: HomeStatus; reasons: string[] } | null {
+/** The core's verdict on a home, from its homes.csv row. */
+function coreVerdict(r: Record<string, string>): { status: HomeStatus; reasons: string[] } | null {
   const safe = r['safe_route'];
-  if (typeof safe !== 'boolean') return null;
-  const split = (x: unknown) => (typeof x === 'string' && x ? x.split(/;\s*(?=[a-z0-9-]+:)/) : []);
-  if (r['hazardous'] === true) return { status: 'hazardous', reasons: [...new Set([...split(r['hazard_reason']), ...split(r['unsafe_reason'])])] };
-  if (safe) return { status: 'safe', reasons: [] };
+  if (safe !== 'true' && safe !== 'false') return null;
+  const split = (x: string | undefined) => (x ? x.split(/;\s*(?=[a-z0-9-]+:)/) : []);
+  if (r['hazardous'] === 'true') return { status: 'hazardous', reasons: [...new Set([...split(r['hazard_reason']), ...split(r['unsafe_reason'])])] };
+  if (safe === 'true') return { status: 'safe', reasons: [] };
   const reasons = split(r['unsafe_reason']);
   return { status: 'unsafe', reasons: reasons.length ? reasons : ['fails the safe-route test'] };
 }
 
 export function buildView(doc: AuditDoc): View {
   const walkZoneM = doc.summary.walk_zone_m;
-  type Three = { shortest: Feature<RouteProps> | null; recommended: Feature<RouteProps> | null; safe: Feature<RouteProps> | null };
-  const routes = new Map<string, Three>();
-  for (const f of doc.routes.features) {
-    const id = f.properties.home_id;
-    const e = routes.get(id) ?? { shortest: null, recommended: null, safe: null };
-    e[f.properties.kind] = f;
-    routes.set(id, e);
-  }
   const rows = new Map(homesCsvRows(doc).map((r) => [r['home_id'], r]));
   const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
-    const r = routes.get(h.id) ?? { shortest: null, recommended: null, safe: null };
-    const row = rows.get(h.id);
+    const row = rows.get(h.id) ?? {};
+    const shortestM = num(row['shortest_network_m']);
+    const routed = shortestM !== null && num(row['recommended_network_m']) !== null;
     let status: HomeStatus;
     let reasons: string[] = [];
-    if (!r.shortest || !r.recommended) {
+    if (!routed) {
       status = 'unreached';
       reasons = ['no walking route to a school was found'];
-    } else if (row?.['in_walk_zone'] === 'false') {
+    } else if (row['in_walk_zone'] === 'false') {
       status = 'beyond';
-      reasons = [`shortest route ${Math.round(r.shortest.properties.network_m)} m is beyond the ${row?.['walk_zone_m'] || walkZoneM} m walk zone`];
+      reasons = [`shortest route ${Math.round(shortestM ?? 0)} m is beyond the ${row['walk_zone_m'] || walkZoneM} m walk zone`];
     } else {
       // Every verdict is the core's; the page only displays it.
-      ({ status, reasons } = coreVerdict(r.recommended.properties) ?? { status: 'unsafe', reasons: ['the core gave no safe-route verdict for this route'] });
-      if (r.recommended.properties.over_detour_cap && status !== 'safe')
+      ({ status, reasons } = coreVerdict(row) ?? { status: 'unsafe', reasons: ['the core gave no safe-route verdict for this route'] });
+      if (row['over_detour_cap'] === 'true' && status !== 'safe')
         reasons.push('a safer route would exceed the detour cap, so the shortest stands');
     }
     return {
@@ -101,13 +114,12 @@ export function buildView(doc: AuditDoc): View {
       id: h.id,
       at: h.at,
       children: h.children,
-      schoolId: r.shortest?.properties.school_id ?? h.school ?? null,
-      shortest: r.shortest,
-      recommended: r.recommended,
-      safe: r.safe,
+      schoolId: (routed ? row['school_id'] : '') || h.school || null,
+      shortestM,
+      routed,
       status,
       reasons,
-      row: row ?? {},
+      row,
     };
   });
   const byId = new Map(homes.map((h) => [h.id, h]));
@@ -126,8 +138,8 @@ export function buildView(doc: AuditDoc): View {
 function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: AuditDoc, walkZoneM: number): CatchmentView {
   const members = homes.filter((h) => h.schoolId === schoolId);
   const children = members.reduce((a, h) => a + h.children, 0);
-  const routed = members.filter((h) => h.recommended && h.shortest);
-  const inZone = members.filter((h) => h.shortest && h.shortest.properties.network_m <= walkZoneM);
+  const routed = members.filter((h) => h.routed);
+  const inZone = members.filter((h) => h.shortestM !== null && h.shortestM <= walkZoneM);
   const inZoneN = inZone.reduce((a, h) => a + h.children, 0);
   const safeN = members.filter((h) => h.status === 'safe').reduce((a, h) => a + h.children, 0);
   const w = routed.reduce((a, h) => a + h.children, 0);
@@ -165,8 +177,8 @@ function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: Au
     safeShare: children ? safeN / children : null,
     deficit: children ? (inZoneN - safeN) / children : null,
     // Two trips a day at the recommended route's walking time.
-    activeMin: coreActive ?? mean((h) => 2 * (h.recommended?.properties.walking_time_min ?? 0)),
-    riskPerTrip: num(s?.mean_risk_per_trip) ?? mean((h) => h.recommended?.properties.risk ?? 0),
+    activeMin: coreActive ?? mean((h) => 2 * (num(h.row['walking_time_min']) ?? 0)),
+    riskPerTrip: num(s?.mean_risk_per_trip) ?? mean((h) => num(h.row['risk']) ?? 0),
     meanShortestM: num(s?.mean_shortest_network_m),
     meanUncontrolled: num(s?.mean_uncontrolled_crossings),
     hazardous: null,

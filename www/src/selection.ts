@@ -1,7 +1,7 @@
 // The selection panel: a home's two routes side by side, or a catchment's figures.
 
 import { el, fmt } from './dom';
-import type { CatchmentView, HomeView, View } from './model';
+import type { CatchmentView, HomeView, Routes, View } from './model';
 import { DEVICES } from './palette';
 import type { RouteProps } from './types';
 
@@ -39,10 +39,11 @@ const STATUS_TEXT: Record<string, string> = {
   unreached: 'No route found',
 };
 
-export function homePanel(view: View, h: HomeView): HTMLElement {
-  const s = h.shortest?.properties;
-  const r = h.recommended?.properties;
-  const sf = h.safe?.properties;
+/** A home's panel; `routes` are its three routes as the worker drew them. */
+export function homePanel(view: View, h: HomeView, routes: Routes): HTMLElement {
+  const s = routes.shortest?.properties;
+  const r = routes.recommended?.properties;
+  const sf = routes.safe?.properties;
   const school = view.doc.layers.schools.find((x) => x.id === h.schoolId);
   const table = el(
     'table',

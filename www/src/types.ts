@@ -110,7 +110,8 @@ export interface AuditDoc {
   /** CSV on the Web metadata of each CSV the core writes (file name -> document). */
   csv_metadata?: Record<string, { url: string; 'dc:title': string; tableSchema: { columns: { name: string; 'dc:description': string; 'schema:unitText'?: string }[] } }>;
   homes_csv: string;
-  routes: FeatureCollection<RouteProps>;
+  /** The audit the worker holds for this document: its routes come from `Engine.routes`. */
+  audit_id: number;
   qa: FeatureCollection;
   centrelines: FeatureCollection;
   layers: {
@@ -142,6 +143,8 @@ export type ToWorker =
   | { type: 'convert'; id: number; layer: string; name: string; bytes: ArrayBuffer; crs: string }
 
   | { type: 'reaudit'; id: number; interventions: string }
+  | { type: 'routes'; id: number; audit: number; query: string }
+  | { type: 'release'; id: number; audit: number }
   | { type: 'compare'; id: number; before: string; after: string }
   | { type: 'write_project'; id: number; project: string }
   | { type: 'read_project'; id: number; bytes: Uint8Array };

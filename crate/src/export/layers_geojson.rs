@@ -155,16 +155,27 @@ fn route_feature<'a>(
 /// one exists), with the route's figures. Personal data: homes are individual here, so this
 /// export stays on the planner's machine.
 pub fn routes_geojson(out: &AuditOutput) -> Collection<RouteProps<'_>> {
+    routes_geojson_of(out, |_| true, |_| true)
+}
+
+/// The routes of the homes `home` keeps (by index), of the kinds `kind` keeps, in the order
+/// of [`routes_geojson`]: the page asks its worker for one home's or one catchment's routes.
+pub fn routes_geojson_of(
+    out: &AuditOutput,
+    home: impl Fn(usize) -> bool,
+    kind: impl Fn(crate::route::RouteKind) -> bool,
+) -> Collection<RouteProps<'_>> {
     let mut features = Vec::new();
-    for (i, h) in out.homes.iter().enumerate() {
-        if let Some(r) = &h.shortest {
-            features.push(route_feature(out, i, r, false));
-        }
-        if let Some(r) = &h.recommended {
-            features.push(route_feature(out, i, r, h.over_detour_cap));
-        }
-        if let Some(r) = &h.safe {
-            features.push(route_feature(out, i, r, false));
+    for (i, h) in out.homes.iter().enumerate().filter(|(i, _)| home(*i)) {
+        let three = [
+            (&h.shortest, false),
+            (&h.recommended, h.over_detour_cap),
+            (&h.safe, false),
+        ];
+        for (r, over_cap) in three {
+            if let Some(r) = r.as_ref().filter(|r| kind(r.kind)) {
+                features.push(route_feature(out, i, r, over_cap));
+            }
         }
     }
     typed_collection(features)

@@ -16,7 +16,7 @@ pub mod summary;
 pub use catchments_csv::{catchments_csv, plan_csv, plan_json};
 pub use homes_csv::homes_csv;
 pub use hotspots::{hotspots_csv, hotspots_geojson};
-pub use layers_geojson::{centrelines_geojson, qa_geojson, routes_geojson};
+pub use layers_geojson::{centrelines_geojson, qa_geojson, routes_geojson, routes_geojson_of};
 pub use summary::{network_summary, summary_json};
 
 /// Rounds metres (and other figures) for output: two decimals is centimetres.
