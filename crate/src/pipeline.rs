@@ -13,8 +13,8 @@ use crate::route::assign::{assign_schools, Assignment};
 use crate::route::path::{entrance_sources, route_to_school};
 use crate::route::tree::{Reached, Tree};
 use crate::route::{Route, RouteKind};
+use rustc_hash::FxHashMap as HashMap;
 use serde::Serialize;
-use std::collections::HashMap;
 
 /// The stages a long audit reports progress on.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -347,22 +347,45 @@ impl RouteTargets<'_> {
             &entrance_sources(g, cost, self.entrances),
             &targets,
         );
-        let mut shared: HashMap<(u32, u64), Option<AuditedRoute>> = HashMap::new();
-        members
+        // Homes on the same spot share one route: each spot is routed once, and its route is
+        // cloned only for the homes before its last (a lone home's route is moved, not copied).
+        // Sized up front: growing them re-copies every route, which costs most in wasm.
+        let mut slot_of: HashMap<(u32, u64), usize> =
+            HashMap::with_capacity_and_hasher(members.len(), Default::default());
+        let mut routes: Vec<Option<AuditedRoute>> = Vec::with_capacity(members.len());
+        let mut uses: Vec<u32> = Vec::with_capacity(members.len());
+        let slots: Vec<Option<usize>> = members
             .iter()
             .map(|&i| {
                 let att = self.home_att.get(i).copied().flatten()?;
-                shared
+                let slot = *slot_of
                     .entry((att.edge, att.offset_m.to_bits()))
                     .or_insert_with(|| {
-                        route_to_school(g, tree, cost, &att, self.entrances).map(|r| AuditedRoute {
-                            kind,
-                            audit: audit_route(g, self.streets, &r),
-                            risk: risk(&r),
-                            route: r,
-                        })
-                    })
-                    .clone()
+                        routes.push(route_to_school(g, tree, cost, &att, self.entrances).map(
+                            |r| AuditedRoute {
+                                kind,
+                                audit: audit_route(g, self.streets, &r),
+                                risk: risk(&r),
+                                route: r,
+                            },
+                        ));
+                        uses.push(0);
+                        routes.len() - 1
+                    });
+                uses[slot] += 1;
+                Some(slot)
+            })
+            .collect();
+        slots
+            .into_iter()
+            .map(|slot| {
+                let slot = slot?;
+                uses[slot] -= 1;
+                if uses[slot] == 0 {
+                    routes[slot].take()
+                } else {
+                    routes[slot].clone()
+                }
             })
             .collect()
     }

@@ -186,12 +186,29 @@ pub fn caution() -> String {
     crate::CAUTION.to_string()
 }
 
+/// Grows the wasm memory once, before an audit, to about what an audit of `layers_bytes` of
+/// layers needs (12 bytes per byte of layers text: 466 MB at the peak for a 24 MB,
+/// 100 k-segment district), by taking one block and giving it back to the allocator.
+/// Rust's wasm allocator grows memory by little more than each allocation needs, and each
+/// `memory.grow` is dear in the JavaScript engine: without this, the first audit of that
+/// district spent about half its routing time growing memory (10.5 s against 5.7 s for the
+/// same audit once memory had grown; `node --cpu-prof`, docs/scaling.md). Memory never
+/// shrinks in wasm, and the audit reaches this size anyway.
+fn reserve_heap(layers_bytes: usize) {
+    let have = core::arch::wasm32::memory_size(0) * 65536;
+    let want = layers_bytes.saturating_mul(16).min(1 << 30);
+    if want > have + (have / 4) {
+        drop(std::hint::black_box(Vec::<u8>::with_capacity(want - have)));
+    }
+}
+
 /// Reads the page's layers and config and runs the audit.
 fn run(
     layers_json: &str,
     config_json: &str,
     progress: &js_sys::Function,
 ) -> Result<AuditOutput, JsValue> {
+    reserve_heap(layers_json.len());
     let page: PageLayers = serde_json::from_str(layers_json).map_err(to_js)?;
     let raw = RawLayers::try_from(page).map_err(error_to_js)?;
     let config = if config_json.trim().is_empty() {

@@ -5,7 +5,7 @@ use super::qa::{QaItem, QaKind};
 use super::unionfind::UnionFind;
 use super::{Junction, Segment};
 use crate::input::Street;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// Component count, largest share and one `TinyComponent` item per small piece that is not
 /// the largest.
@@ -21,7 +21,7 @@ pub(crate) fn component_qa(
         uf.union(s.from, s.to);
     }
     // root -> (segment count, first segment)
-    let mut comps: HashMap<u32, (usize, usize)> = HashMap::new();
+    let mut comps: HashMap<u32, (usize, usize)> = HashMap::default();
     for (i, s) in segments.iter().enumerate() {
         let e = comps.entry(uf.find(s.from)).or_insert((0, i));
         e.0 += 1;

@@ -10,7 +10,7 @@ use super::unionfind::UnionFind;
 use super::{Junction, Segment};
 use crate::geodesy::{line_length_m, LocalFrame};
 use crate::input::{LonLat, Street};
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// Junctions and the segments between them.
 #[derive(Debug, Clone, Default)]
@@ -57,7 +57,7 @@ pub(crate) fn node_streets(streets: &[Street], tol_m: f64, frame: &LocalFrame) -
         .collect();
 
     // Exact points, how often they occur, and whether one is a line end.
-    let mut ids: HashMap<(u64, u64), u32> = HashMap::new();
+    let mut ids: HashMap<(u64, u64), u32> = HashMap::default();
     let mut points: Vec<LonLat> = Vec::new();
     let mut count: Vec<u32> = Vec::new();
     let mut node: Vec<bool> = Vec::new();
@@ -107,7 +107,7 @@ pub(crate) fn node_streets(streets: &[Street], tol_m: f64, frame: &LocalFrame) -
 
     // Each cluster's position: its most shared point (ties: the first seen), so an end that
     // snapped moves onto the through street, not the other way round.
-    let mut best: HashMap<u32, u32> = HashMap::new();
+    let mut best: HashMap<u32, u32> = HashMap::default();
     for p in 0..points.len() as u32 {
         if !node[p as usize] {
             continue;
@@ -121,7 +121,7 @@ pub(crate) fn node_streets(streets: &[Street], tol_m: f64, frame: &LocalFrame) -
 
     // Junction ids in order of first appearance along the streets.
     let mut maker = JunctionMaker {
-        of_root: HashMap::new(),
+        of_root: HashMap::default(),
         junctions: Vec::new(),
         best: &best,
         points: &points,

@@ -7,7 +7,7 @@
 use super::unionfind::UnionFind;
 use crate::geodesy::{distance_m, LocalFrame};
 use crate::input::LonLat;
-use std::collections::HashMap;
+use rustc_hash::FxHashMap as HashMap;
 
 /// The flat vertex list the snapper works on.
 pub(crate) struct SnapInput<'a> {
@@ -39,7 +39,7 @@ pub(crate) fn snap_points(
         )
     };
     let xy: Vec<[f64; 2]> = input.points.iter().map(|&p| frame.to_xy(p)).collect();
-    let mut grid: HashMap<(i64, i64), Vec<u32>> = HashMap::new();
+    let mut grid: HashMap<(i64, i64), Vec<u32>> = HashMap::default();
     for (v, &p) in input.point_of.iter().enumerate() {
         if let Some(&q) = xy.get(p as usize) {
             grid.entry(cell_of(q)).or_default().push(v as u32);

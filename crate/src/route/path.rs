@@ -196,7 +196,9 @@ pub fn route_to_school(
                 to_frac: end_frac,
             });
             let mut c = corner;
-            for edge in tree.path_to_source(graph, corner) {
+            let path = tree.path_to_source(graph, corner);
+            steps.reserve_exact(path.len() + 2);
+            for edge in path {
                 let ed = &graph.edges[edge as usize];
                 let (from_frac, to_frac, next) = if ed.a == c {
                     (0.0, 1.0, ed.b)

@@ -11,8 +11,8 @@ use crate::pipeline::HomeResult;
 use crate::risk::crossing_delay::{gap_delay, Los};
 use crate::risk::volume::peak_flow_per_s;
 use crate::risk::{edge_risk_points, street_of};
+use rustc_hash::FxHashMap as HashMap;
 use serde::Serialize;
-use std::collections::HashMap;
 
 /// One ranked hotspot.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -74,8 +74,8 @@ pub fn hotspots(
     config: &Config,
 ) -> Vec<Hotspot> {
     // edge -> (children, product)
-    let mut acc: HashMap<u32, (f64, f64)> = HashMap::new();
-    let mut risk_of: HashMap<u32, f64> = HashMap::new();
+    let mut acc: HashMap<u32, (f64, f64)> = HashMap::default();
+    let mut risk_of: HashMap<u32, f64> = HashMap::default();
     for (i, h) in homes.iter().enumerate() {
         let (Some(rec), Some(home)) = (&h.recommended, layer_homes.get(i)) else {
             continue;

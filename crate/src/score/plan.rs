@@ -16,8 +16,9 @@ use crate::pipeline::{AuditOutput, AuditedRoute, HomeResult};
 use crate::route::path::{entrance_sources, route_to_school};
 use crate::route::tree::{Reached, Tree};
 use crate::route::{Route, RouteKind};
+use rustc_hash::FxHashMap as HashMap;
 use serde::{Deserialize, Serialize};
-use std::collections::{BTreeSet, HashMap};
+use std::collections::BTreeSet;
 
 /// Planner settings.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
@@ -305,7 +306,7 @@ pub fn reroute_school_in(
         );
         reach.merge(&tree.reached());
     }
-    let mut shared: HashMap<(u32, u64), Option<Route>> = HashMap::new();
+    let mut shared: HashMap<(u32, u64), Option<Route>> = HashMap::default();
     for &i in members {
         let Some(h) = homes.get(i) else { continue };
         let mut nh = h.clone();
@@ -424,7 +425,7 @@ impl State<'_> {
     }
     /// Per edge, the schools whose current recommended or shortest routes use it (sorted).
     fn edge_schools(&self) -> HashMap<u32, Vec<usize>> {
-        let mut by_edge: HashMap<u32, Vec<usize>> = HashMap::new();
+        let mut by_edge: HashMap<u32, Vec<usize>> = HashMap::default();
         for h in &self.homes {
             let Some(s) = h.assignment.school else {
                 continue;
@@ -692,7 +693,7 @@ fn shares(st: &State, scores: &[HomeScore]) -> Vec<CatchmentShare> {
 /// Candidate `(upgrade, edge)` pairs, the most-travelled flagged edges first.
 fn candidates(st: &State, cfg: &PlanConfig) -> Vec<(Upgrade, u32)> {
     let c = &st.out.config;
-    let mut weight: HashMap<u32, f64> = HashMap::new();
+    let mut weight: HashMap<u32, f64> = HashMap::default();
     for (i, (h, sc)) in st.homes.iter().zip(&st.scores).enumerate() {
         if !sc.routed || sc.safe_route || !sc.in_walk_zone {
             continue;
@@ -808,7 +809,7 @@ fn plan(out: &AuditOutput, scores: &[HomeScore], budget: usize, reuse: bool) -> 
     let before = shares(&st, &st.scores);
     let mut steps = Vec::new();
     // Tries of earlier rounds still valid: keyed by candidate.
-    let mut kept: HashMap<(Upgrade, u32), Tried> = HashMap::new();
+    let mut kept: HashMap<(Upgrade, u32), Tried> = HashMap::default();
     for rank in 1..=budget {
         let cands = candidates(&st, cfg);
         let by_edge = st.edge_schools();
