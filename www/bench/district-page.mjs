@@ -46,18 +46,20 @@ for (let h = 0; h < nHomes; h++)
 const fc = (features) => JSON.stringify({ type: 'FeatureCollection', features });
 for (const [k, f] of Object.entries({ streets, crossings, schools, homes })) writeFileSync(join(dir, `${k}.geojson`), fc(f));
 
-/** Peak resident memory (VmHWM, MB) summed over Chromium's renderer processes. */
+/** Peak resident memory (VmHWM, MB) of the largest of Chromium's renderer processes (the
+ * tab; its workers are threads in it), and how many renderer processes there were. */
 function rendererPeakMb() {
   let kb = 0;
+  let n = 0;
   for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
     try {
       const cmd = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
       if (!cmd.includes('chromium') || !cmd.includes('--type=renderer')) continue;
       const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
-      if (m) kb += Number(m[1]);
+      if (m) { kb = Math.max(kb, Number(m[1])); n += 1; }
     } catch { /* the process ended */ }
   }
-  return Math.round(kb / 1024);
+  return `${Math.round(kb / 1024)} (largest of ${n})`;
 }
 
 const server = await serve(join(here, '..', 'build'), 0);
