@@ -187,8 +187,9 @@ pub fn caution() -> String {
 }
 
 /// Grows the wasm memory once, before an audit, to about what an audit of `layers_bytes` of
-/// layers needs (12 bytes per byte of layers text: 466 MB at the peak for a 24 MB,
-/// 100 k-segment district), by taking one block and giving it back to the allocator.
+/// layers needs (16 bytes per byte of layers text: 384 MB for a 24 MB, 100 k-segment
+/// district whose audit peaks at about 400 MB), by taking one block and giving it back to the
+/// allocator.
 /// Rust's wasm allocator grows memory by little more than each allocation needs, and each
 /// `memory.grow` is dear in the JavaScript engine: without this, the first audit of that
 /// district spent about half its routing time growing memory (10.5 s against 5.7 s for the
@@ -276,10 +277,7 @@ pub fn audit(
     HELD.with(|held| {
         let mut held = held.borrow_mut();
         held.audits.clear();
-        let id = held.hold(out);
-        held.audits
-            .last()
-            .map_or(Ok(String::new()), |(_, out)| audit_doc(out, id, None))
+        held.hold(out, None)
     })
 }
 
@@ -295,14 +293,16 @@ struct Held {
 }
 
 impl Held {
-    /// Holds `out` as the latest audit, letting go of the oldest re-audit past the limit.
-    fn hold(&mut self, out: AuditOutput) -> u32 {
-        self.next_id += 1;
-        self.audits.push((self.next_id, out));
-        while self.audits.len() > HELD_AUDITS {
+    /// Holds `out` as the latest audit, letting go of the oldest re-audit past the limit, and
+    /// writes its document.
+    fn hold(&mut self, out: AuditOutput, extra: Option<Value>) -> Result<String, JsValue> {
+        while self.audits.len() >= HELD_AUDITS {
             self.audits.remove(1);
         }
-        self.next_id
+        self.next_id += 1;
+        let doc = audit_doc(&out, self.next_id, extra);
+        self.audits.push((self.next_id, out));
+        doc
     }
 }
 
@@ -431,13 +431,7 @@ pub fn reaudit(
     let core_ms = js_sys::Date::now() - t0;
     let mut extra = serde_json::to_value(stats).map_err(to_js)?;
     extra["core_ms"] = json!(core_ms);
-    HELD.with(|held| {
-        let mut held = held.borrow_mut();
-        let id = held.hold(out);
-        held.audits.last().map_or(Ok(String::new()), |(_, out)| {
-            audit_doc(out, id, Some(extra))
-        })
-    })
+    HELD.with(|held| held.borrow_mut().hold(out, Some(extra)))
 }
 
 /// Compares two audits' `homes_csv` (before, after) per catchment, as `catchwalk compare`

@@ -476,10 +476,7 @@ function reselect(fit = false) {
   }
   const v = view;
   const failed = (e: unknown) => {
-    if (token !== selectionDrawn) return;
-    let message = String((e as Error)?.message ?? e);
-    try { message = (JSON.parse(message) as { message: string }).message; } catch { /* plain text */ }
-    host.append(el('p', { class: 'error' }, `The routes could not be drawn: ${message}`));
+    if (token === selectionDrawn) host.append(el('p', { class: 'error' }, `The routes could not be drawn: ${errorText(e)}`));
   };
   if (selected.kind === 'home') {
     const h = v.byId.get(selected.id);
@@ -500,8 +497,9 @@ function reselect(fit = false) {
     if (!c) return;
     host.replaceChildren(catchmentPanel(v, c));
     const id = selected.id;
-    map.setCatchments(v, layerJson('catchments'), id);
-    const poly = layerJson('catchments')?.features.filter((_, i) => v.doc.layers.catchments.find((x) => x.feature === i)?.school_id === id) ?? [];
+    const areas = layerJson('catchments');
+    map.setCatchments(v, areas, id);
+    const poly = areas?.features.filter((_, i) => v.doc.layers.catchments.find((x) => x.feature === i)?.school_id === id) ?? [];
     if (fit && poly.length) map.fit(poly, 16);
     engine.routes(v.doc.audit_id, { school: id, kinds: ['recommended'] }).then((fc) => {
       if (token !== selectionDrawn) return;
@@ -690,7 +688,7 @@ includeHomes.addEventListener('change', syncPrivacy);
 syncPrivacy();
 $('x-routes').addEventListener('click', () => {
   const v = view;
-  if (v) saveRoutes(v, layerJson('catchments'), includeHomes.checked, () => engine.routesText(v.doc.audit_id, {})).catch((e) => setStatus(`The routes could not be saved: ${(e as Error).message}`));
+  if (v) saveRoutes(v, layerJson('catchments'), includeHomes.checked, () => engine.routesText(v.doc.audit_id, {})).catch((e) => setStatus(`The routes could not be saved: ${errorText(e)}`));
 });
 $('x-hotspots').addEventListener('click', () => view && saveHotspots(view));
 $('x-catchments').addEventListener('click', () => view && saveCatchments(view));

@@ -43,13 +43,13 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
   if (msg.type === 'routes') {
     // Route lines of one held audit: a home's, a catchment's, or (an export) all of them.
     try {
-      const doc = (core as unknown as { routeLines: (a: number, q: string) => string }).routeLines(msg.audit, msg.query);
+      const doc = core.routeLines(msg.audit, msg.query);
       post({ type: 'done', id: msg.id, doc, ms: 0 });
     } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
     return;
   }
   if (msg.type === 'release') {
-    (core as unknown as { releaseAudit: (a: number) => void }).releaseAudit(msg.audit);
+    core.releaseAudit(msg.audit);
     post({ type: 'done', id: msg.id, doc: '', ms: 0 });
     return;
   }

@@ -160,9 +160,7 @@ impl Tree {
 
     /// Edges from `corner` back to its source, nearest first.
     pub fn path_to_source(&self, graph: &PedGraph, corner: u32) -> Vec<u32> {
-        // Walked twice, to count and then to fill: one allocation instead of a growing vector
-        // (reallocation is dear in wasm's allocator).
-        let mut out = Vec::with_capacity(self.path_len(graph, corner));
+        let mut out = Vec::new();
         let mut c = corner;
         while self.cost[c as usize].is_finite() {
             let e = self.pred_edge[c as usize];
@@ -177,22 +175,6 @@ impl Tree {
             }
         }
         out
-    }
-
-    /// How many edges [`Tree::path_to_source`] returns for `corner` (at most one per edge).
-    fn path_len(&self, graph: &PedGraph, corner: u32) -> usize {
-        let mut n = 0;
-        let mut c = corner;
-        while self.cost[c as usize].is_finite() && n <= graph.edges.len() {
-            let e = self.pred_edge[c as usize];
-            if e == NONE {
-                break;
-            }
-            n += 1;
-            let edge = &graph.edges[e as usize];
-            c = if edge.a == c { edge.b } else { edge.a };
-        }
-        n
     }
 
     /// The corners the last growth reached (settled or only queued), as a bit set: a change
