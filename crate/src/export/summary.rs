@@ -14,17 +14,17 @@ pub fn summary_json(out: &AuditOutput) -> Value {
     let g = &out.network.graph;
     let qa = &out.network.qa;
     let walk_zone = out.config.benefit.walk_zone_m;
+    let by_school = crate::pipeline::homes_by_school(&out.homes, out.layers.schools.len());
     let schools: Vec<Value> = out
         .layers
         .schools
         .iter()
+        .zip(&by_school)
         .enumerate()
-        .map(|(s, school)| {
-            let members: Vec<_> = out
-                .homes
+        .map(|(s, (school, of_school))| {
+            let members: Vec<_> = of_school
                 .iter()
-                .enumerate()
-                .filter(|(_, h)| h.assignment.school == Some(s))
+                .filter_map(|&i| Some((i, out.homes.get(i)?)))
                 .collect();
             // u64: a sum of u32 counts cannot overflow it (three homes of 4294967295
             // children wrapped a u32 total).

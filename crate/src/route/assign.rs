@@ -1,11 +1,12 @@
 //! Which school each home goes to: its own `school` property, else the catchment that
 //! contains it, else the nearest school by walking distance (one multi-source search).
 
-use super::path::{entrance_sources, route_to_school};
+use super::path::{entrance_sources, route_to_school_among};
 use super::tree::Tree;
 use crate::input::{Catchment, Home, School};
 use crate::network::{Attachment, PedGraph};
 use geo::{Contains, Point};
+use rustc_hash::FxHashMap;
 use serde::Serialize;
 use std::collections::HashMap;
 
@@ -85,6 +86,14 @@ pub fn assign_schools(
     if flat.is_empty() {
         return out;
     }
+    // The entrances on each street segment: the only ones a home on that segment can walk to
+    // straight along its own edge (`route_to_school_among`).
+    let mut on_segment: FxHashMap<u32, Vec<usize>> = FxHashMap::default();
+    for (k, a) in flat.iter().enumerate() {
+        if let Some(e) = graph.edges.get(a.edge as usize) {
+            on_segment.entry(e.segment()).or_default().push(k);
+        }
+    }
     let mut tree = Tree::for_graph(graph);
     tree.grow(
         graph,
@@ -97,7 +106,13 @@ pub fn assign_schools(
             continue;
         }
         if let Some(att) = &home_att[i] {
-            if let Some(r) = route_to_school(graph, &tree, walk_cost, att, &flat) {
+            let same_segment = graph
+                .edges
+                .get(att.edge as usize)
+                .and_then(|e| on_segment.get(&e.segment()))
+                .map_or(&[][..], |v| v.as_slice());
+            let near = same_segment.iter().copied();
+            if let Some(r) = route_to_school_among(graph, &tree, walk_cost, att, &flat, near) {
                 *a = Assignment {
                     school: Some(flat_school[r.entrance as usize]),
                     by: AssignedBy::NearestByWalking,
@@ -106,4 +121,61 @@ pub fn assign_schools(
         }
     }
     out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::input::Students;
+
+    fn at(edge: u32, offset_m: f64) -> Attachment {
+        Attachment {
+            edge,
+            offset_m,
+            at: [0.0, 0.0],
+            snap_m: 0.0,
+        }
+    }
+
+    fn school(id: &str) -> School {
+        School {
+            feature: 0,
+            id: id.into(),
+            name: id.into(),
+            entrances: vec![[0.0, 0.0]],
+            students: Students::default(),
+        }
+    }
+
+    #[test]
+    fn nearest_school_counts_a_walk_along_the_homes_own_edge() {
+        // Corners 0-1-2, edges of 100 m. The home is 50 m along edge 0; school B's entrance
+        // 10 m along the same edge (40 m straight along it, 60 m by corner 0); school A's
+        // 5 m past corner 1 (55 m). B is nearest only by the walk straight along edge 0.
+        let g = PedGraph::toy_path(&[100.0, 100.0]);
+        let cost = [100.0, 100.0];
+        let home = Home {
+            feature: 0,
+            id: "h".into(),
+            at: [0.0, 0.0],
+            children: 1,
+            school: None,
+        };
+        let schools = [school("A"), school("B"), school("C")];
+        // C has no entrance on the network: it must not upset the entrance numbering.
+        let school_att = [vec![at(1, 5.0)], vec![at(0, 10.0)], vec![]];
+        let got = assign_schools(
+            &g,
+            &cost,
+            &[home.clone(), home],
+            &[Some(at(0, 50.0)), Some(at(1, 20.0))],
+            &schools,
+            &school_att,
+            &[],
+        );
+        assert_eq!(got[0].school, Some(1));
+        assert_eq!(got[0].by, AssignedBy::NearestByWalking);
+        // The second home, 20 m along edge 1, walks 15 m straight along it to A.
+        assert_eq!(got[1].school, Some(0));
+    }
 }

@@ -135,6 +135,22 @@ pub fn route_to_school(
     home: &Attachment,
     entrances: &[Attachment],
 ) -> Option<Route> {
+    route_to_school_among(graph, tree, edge_cost, home, entrances, 0..entrances.len())
+}
+
+/// [`route_to_school`] where only the entrances at `same_segment` (indices into
+/// `entrances`) can stand on the home's street segment, so only they are tried for a walk
+/// straight along one edge. A home's edge and its twin lie on one segment, so any entrance
+/// elsewhere cannot share an edge with it. The nearest-school search has every school's
+/// entrances in one list: trying each of them for every home made it homes x schools.
+pub fn route_to_school_among(
+    graph: &PedGraph,
+    tree: &Tree,
+    edge_cost: &[f64],
+    home: &Attachment,
+    entrances: &[Attachment],
+    same_segment: impl Iterator<Item = usize> + Clone,
+) -> Option<Route> {
     let u = frac(graph, home);
     let mut best: Option<Start> = None;
     let mut consider = |cand: Start| {
@@ -162,7 +178,10 @@ pub fn route_to_school(
             None,
         ));
         // Straight along the same edge to an entrance on it.
-        for (k, ent) in entrances.iter().enumerate() {
+        for k in same_segment.clone() {
+            let Some(ent) = entrances.get(k) else {
+                continue;
+            };
             for eopt in end_options(graph, edge_cost, ent).iter().flatten() {
                 if eopt.edge == opt.edge {
                     let d = w * (frac(graph, ent) - u).abs();

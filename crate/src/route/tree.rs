@@ -177,9 +177,11 @@ impl Tree {
         out
     }
 
-    /// The corners the last growth reached (settled or only queued), as a bit set: a change
-    /// to edges with neither end among them cannot alter the tree, since Dijkstra only reads
-    /// the edges of the corners it settles (`scenario::reaudit`).
+    /// The corners the last growth reached (settled or only queued), as a sorted list: a
+    /// change to edges with neither end among them cannot alter the tree, since Dijkstra only
+    /// reads the edges of the corners it settles (`scenario::reaudit`). A list, not a bit set
+    /// over the graph: an audit keeps three per school, and bit sets made that schools x corners
+    /// (1.4 GB on a county of 2 000 schools).
     ///
     /// ```
     /// use catchwalk::route::tree::{Source, Tree};
@@ -190,13 +192,10 @@ impl Tree {
     /// assert!(r.contains(0) && r.contains(1) && !r.contains(2)); // stopped at corner 1
     /// ```
     pub fn reached(&self) -> Reached {
-        let mut bits = vec![0u64; self.cost.len().div_ceil(64)];
-        for &c in &self.touched {
-            if let Some(w) = bits.get_mut(c as usize / 64) {
-                *w |= 1 << (c % 64);
-            }
-        }
-        Reached(bits)
+        let mut corners = self.touched.clone();
+        corners.sort_unstable();
+        corners.dedup();
+        Reached(corners)
     }
 
     fn reset(&mut self) {
@@ -209,24 +208,19 @@ impl Tree {
     }
 }
 
-/// A set of corners a tree reached ([`Tree::reached`]); empty by default.
+/// A set of corners a tree reached ([`Tree::reached`]), sorted; empty by default.
 #[derive(Debug, Clone, Default, PartialEq, Eq)]
-pub struct Reached(Vec<u64>);
+pub struct Reached(Vec<u32>);
 
 impl Reached {
-    /// Adds the corners of `other`.
+    /// Adds the corners of `other` (a stable sort merges the two sorted runs in one pass).
     pub fn merge(&mut self, other: &Reached) {
-        if self.0.len() < other.0.len() {
-            self.0.resize(other.0.len(), 0);
-        }
-        for (w, o) in self.0.iter_mut().zip(&other.0) {
-            *w |= o;
-        }
+        self.0.extend_from_slice(&other.0);
+        self.0.sort();
+        self.0.dedup();
     }
     pub fn contains(&self, corner: u32) -> bool {
-        self.0
-            .get(corner as usize / 64)
-            .is_some_and(|w| w & (1 << (corner % 64)) != 0)
+        self.0.binary_search(&corner).is_ok()
     }
 }
 
@@ -254,5 +248,27 @@ mod tests {
         // A cost table shorter than the edge list leaves the missing edges impassable.
         t.grow(&g, &[10.0], &src, &[]);
         assert!(t.cost[2].is_infinite());
+    }
+
+    #[test]
+    fn reached_sets_merge_and_answer_membership() {
+        let g = PedGraph::toy_path(&[10.0, 5.0, 7.0]); // corners 0-1-2-3
+        let mut t = Tree::for_graph(&g);
+        let from = |corner| {
+            [Source {
+                corner,
+                cost: 0.0,
+                origin: 0,
+            }]
+        };
+        t.grow(&g, &[10.0, 5.0, 7.0], &from(3), &[2]);
+        let mut r = t.reached(); // 3 settled, 2 settled: stops there, 1 never queued
+        assert!(r.contains(3) && r.contains(2) && !r.contains(1) && !r.contains(0));
+        t.grow(&g, &[10.0, 5.0, 7.0], &from(0), &[1]);
+        r.merge(&t.reached());
+        assert!((0..4).all(|c| r.contains(c)));
+        assert!(!r.contains(4) && !r.contains(u32::MAX));
+        r.merge(&Reached::default());
+        assert_eq!(r.0, vec![0, 1, 2, 3]);
     }
 }

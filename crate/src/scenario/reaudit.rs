@@ -145,11 +145,13 @@ pub fn reaudit(
     let mut tree_reach = prev.tree_reach.clone();
     let mut tree = Tree::for_graph(g);
     let mut rerouted = 0;
+    // Re-routing changes routes only, never a home's school or attachment.
+    let members_of = school_members(&homes, n_schools);
     for (s, entrances) in school_att.iter().enumerate() {
         if !progress.report(Stage::Routing, s, n_schools) {
             return Err(Error::Cancelled);
         }
-        let members = school_members(&homes, s);
+        let members = members_of.get(s).map_or(&[][..], |m| m.as_slice());
         if members.is_empty() || entrances.is_empty() || changed.is_empty() {
             continue;
         }
@@ -191,7 +193,7 @@ pub fn reaudit(
             continue;
         }
         rerouted += 1;
-        for &i in &members {
+        for &i in members {
             if let Some(h) = homes.get_mut(i) {
                 h.over_detour_cap = false;
             }
@@ -209,7 +211,7 @@ pub fn reaudit(
             config,
             [&walk_cost, &rec_cost, safe_cost],
             entrances,
-            &members,
+            members,
             &mut homes,
             &mut tree,
         );

@@ -95,14 +95,13 @@ pub fn score_audit(
             ));
         }
     }
-    let catchments = (0..layers.schools.len())
-        .map(|s| {
-            let members: Vec<(&home::HomeScore, f64)> = homes
+    let catchments = crate::pipeline::homes_by_school(homes, layers.schools.len())
+        .iter()
+        .enumerate()
+        .map(|(s, of_school)| {
+            let members: Vec<(&home::HomeScore, f64)> = of_school
                 .iter()
-                .zip(&home_scores)
-                .zip(&layers.homes)
-                .filter(|((h, _), _)| h.assignment.school == Some(s))
-                .map(|((_, sc), lh)| (sc, lh.children as f64))
+                .filter_map(|&i| Some((home_scores.get(i)?, layers.homes.get(i)?.children as f64)))
                 .collect();
             catchment::score_catchment(s, &members, &config.score)
         })
