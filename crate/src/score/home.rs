@@ -368,24 +368,32 @@ pub fn score_homes(
     streets: &[Street],
     config: &Config,
 ) -> Vec<HomeScore> {
-    homes
-        .iter()
-        .map(|h| {
-            let students = h
-                .assignment
-                .school
-                .and_then(|s| schools.get(s))
-                .map(|s| s.students)
-                .unwrap_or_default();
-            score_home(
-                h.shortest.as_ref(),
-                h.recommended.as_ref(),
-                h.safe.as_ref(),
-                students,
-                graph,
-                streets,
-                config,
-            )
-        })
-        .collect()
+    let one = |h: &HomeResult| {
+        let students = h
+            .assignment
+            .school
+            .and_then(|s| schools.get(s))
+            .map(|s| s.students)
+            .unwrap_or_default();
+        score_home(
+            h.shortest.as_ref(),
+            h.recommended.as_ref(),
+            h.safe.as_ref(),
+            students,
+            graph,
+            streets,
+            config,
+        )
+    };
+    // Each home's score reads only its own routes: natively on every core, collected in home
+    // order, so the scores are the same on any number of threads.
+    #[cfg(not(target_arch = "wasm32"))]
+    {
+        use rayon::prelude::*;
+        homes.par_iter().map(one).collect()
+    }
+    #[cfg(target_arch = "wasm32")]
+    {
+        homes.iter().map(one).collect()
+    }
 }
