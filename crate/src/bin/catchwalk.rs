@@ -392,6 +392,63 @@ fn write_all(out: &Path, files: &[(String, String)]) -> Result<(), String> {
     dir.commit()
 }
 
+/// One output file of an audit, written into the new folder when called.
+type FileJob<'a> = Box<dyn Fn() -> Result<(), String> + Send + Sync + 'a>;
+
+/// Writes every audit output into `dir`, the files side by side on the machine's cores (each
+/// file is built and written by one thread, so its bytes do not depend on the thread count).
+/// The largest come first so that the last to start are the quick ones.
+fn write_audit_files(
+    dir: &OutputDir,
+    result: &AuditOutput,
+    route_lines: bool,
+) -> Result<(), String> {
+    use rayon::prelude::*;
+    let pretty = |name: &'static str,
+                  f: fn(&AuditOutput, &mut dyn std::io::Write) -> serde_json::Result<()>|
+     -> FileJob<'_> {
+        Box::new(move || dir.write_with(name, |w| f(result, w).map_err(std::io::Error::from)))
+    };
+    let mut jobs: Vec<FileJob<'_>> = Vec::new();
+    if route_lines {
+        jobs.push(pretty("routes.geojson", |r, w| {
+            serde_json::to_writer_pretty(w, &export::routes_geojson(r))
+        }));
+    }
+    jobs.push(pretty("centrelines.geojson", |r, w| {
+        serde_json::to_writer_pretty(w, &export::centrelines_geojson(r))
+    }));
+    jobs.push(pretty("hotspots.geojson", |r, w| {
+        serde_json::to_writer_pretty(w, &export::hotspots_geojson(r))
+    }));
+    jobs.push(Box::new(|| {
+        dir.write_with("flows.geojson", |w| {
+            export::flows::write_flows_geojson(result, w)
+        })
+    }));
+    jobs.push(Box::new(|| {
+        dir.write("homes.csv", &export::homes_csv(result))
+    }));
+    jobs.push(Box::new(|| {
+        dir.write("hotspots.csv", &export::hotspots_csv(result))
+    }));
+    jobs.push(Box::new(|| {
+        dir.write("summary.json", &json(&export::summary_json(result)))
+    }));
+    jobs.push(Box::new(|| {
+        dir.write("qa.geojson", &json(&export::qa_geojson(&result.network.qa)))
+    }));
+    jobs.push(Box::new(|| {
+        dir.write("catchments.csv", &export::catchments_csv(result))
+    }));
+    jobs.push(Box::new(|| {
+        metadata_files(export::csvw::audit_metadata())
+            .iter()
+            .try_for_each(|(name, text)| dir.write(name, text))
+    }));
+    jobs.par_iter().with_max_len(1).try_for_each(|job| job())
+}
+
 /// The CSV on the Web metadata files beside the CSVs (export::csvw).
 fn metadata_files(meta: Vec<(String, serde_json::Value)>) -> Vec<(String, String)> {
     meta.into_iter().map(|(n, v)| (n, json(&v))).collect()
@@ -414,31 +471,7 @@ fn run(cli: Cli) -> Result<(), String> {
             let result = run_audit(&raw, &config, &mut bar).map_err(|e| e.to_string())?;
             bar.bar.finish_and_clear();
             let dir = OutputDir::begin(&out)?;
-            dir.write("summary.json", &json(&export::summary_json(&result)))?;
-            dir.write("homes.csv", &export::homes_csv(&result))?;
-            dir.write_with("flows.geojson", |w| {
-                export::flows::write_flows_geojson(&result, w)
-            })?;
-            if route_lines {
-                dir.write_with("routes.geojson", |w| {
-                    serde_json::to_writer_pretty(w, &export::routes_geojson(&result))
-                        .map_err(std::io::Error::from)
-                })?;
-            }
-            dir.write("qa.geojson", &json(&export::qa_geojson(&result.network.qa)))?;
-            dir.write_with("centrelines.geojson", |w| {
-                serde_json::to_writer_pretty(w, &export::centrelines_geojson(&result))
-                    .map_err(std::io::Error::from)
-            })?;
-            dir.write("catchments.csv", &export::catchments_csv(&result))?;
-            dir.write("hotspots.csv", &export::hotspots_csv(&result))?;
-            dir.write_with("hotspots.geojson", |w| {
-                serde_json::to_writer_pretty(w, &export::hotspots_geojson(&result))
-                    .map_err(std::io::Error::from)
-            })?;
-            for (name, text) in metadata_files(export::csvw::audit_metadata()) {
-                dir.write(&name, &text)?;
-            }
+            write_audit_files(&dir, &result, route_lines)?;
             dir.commit()?;
             print_balance(&result);
             for w in &result.warnings {

@@ -1,7 +1,7 @@
 //! `homes.csv`: one row per home. Crossing and exposure columns describe the recommended
 //! route; the same set prefixed `shortest_` describes the shortest route.
 
-use super::csv_safe::{csv_text, SafeRow};
+use super::csv_safe::rows_text;
 use super::edge_side;
 use super::round2;
 use crate::audit::RouteAudit;
@@ -45,7 +45,6 @@ fn route_values(r: Option<&AuditedRoute>, speed_mps: f64) -> Vec<String> {
 
 /// The CSV text of `homes.csv`.
 pub fn homes_csv(out: &AuditOutput) -> String {
-    let mut w = csv::Writer::from_writer(Vec::new());
     let mut header: Vec<String> = [
         "home_id",
         "school_id",
@@ -65,10 +64,10 @@ pub fn homes_csv(out: &AuditOutput) -> String {
     header.push("shortest_risk".into());
     header.extend(["attach_segment", "attach_side", "attach_offset_m", "snap_m"].map(String::from));
     header.extend(super::catchments_csv::HOME_SCORE_COLUMNS.map(String::from));
-    w.safe_row(header);
     let speed = out.config.benefit.walking_speed_mps;
     let g = &out.network.graph;
-    for (i, h) in out.homes.iter().enumerate() {
+    let row = |i: usize| {
+        let h = &out.homes[i];
         let home = &out.layers.homes[i];
         let school = h
             .assignment
@@ -109,7 +108,7 @@ pub fn homes_csv(out: &AuditOutput) -> String {
         row.extend(super::catchments_csv::home_score_values(
             out.scores.homes.get(i),
         ));
-        w.safe_row(row);
-    }
-    csv_text(w)
+        row
+    };
+    rows_text(&header, out.homes.len(), row)
 }
