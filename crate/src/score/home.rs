@@ -1,14 +1,14 @@
 //! Per-home scores: risk, benefit, walk zone, safe route and hazard, with the reason.
 
-use super::rules::{EdgeFacts, RuleMatch, RuleSet, Target, Verdict};
+use super::edge_rules::{fires, EdgeRuleLookup, EdgeRules, OnTheFly};
+use super::rules::{RuleMatch, RuleSet, Target, Verdict};
 use crate::benefit;
 use crate::config::Config;
 use crate::input::{Street, Students};
 use crate::network::PedGraph;
 use crate::pipeline::{AuditedRoute, HomeResult};
-use crate::risk::crossing_delay::{gap_delay, Los};
-use crate::risk::volume::peak_flow_per_s;
-use crate::risk::{edge_risk_points, street_of};
+use crate::risk::crossing_delay::Los;
+use crate::risk::street_of;
 use crate::route::Route;
 use serde::Serialize;
 
@@ -91,25 +91,38 @@ pub fn route_site_checks(
     students: Students,
     config: &Config,
 ) -> Vec<String> {
+    let live = OnTheFly {
+        rules,
+        graph,
+        streets,
+        config,
+    };
+    route_site_checks_with(&live, rules, route, graph, streets, students)
+}
+
+/// [`route_site_checks`] reading each edge's rule matches from `lookup`.
+pub fn route_site_checks_with(
+    lookup: &dyn EdgeRuleLookup,
+    rules: &RuleSet,
+    route: &Route,
+    graph: &PedGraph,
+    streets: &[Street],
+    students: Students,
+) -> Vec<String> {
     // (rule index, street label) -> (metres, what to check)
     let mut found: Vec<(usize, String, f64, Vec<String>)> = Vec::new();
     for step in &route.steps {
         let Some(edge) = graph.edges.get(step.edge as usize) else {
             continue;
         };
-        let Some(facts) = rules.edge_facts(graph, edge, streets, &config.risk) else {
-            continue;
-        };
-        for (k, rule) in rules.rules.iter().enumerate() {
-            let (m, metres) = match &facts {
-                EdgeFacts::Crossing(f) => (rule.crossing_match(f, students), 0.0),
-                EdgeFacts::Stretch(f) => (
-                    rule.stretch_match(f, students),
-                    step.share() * edge.length_m,
-                ),
-            };
+        for (k, m) in lookup.hits(step.edge, students).iter() {
             let RuleMatch::Check(what) = m else {
                 continue;
+            };
+            let k = *k as usize;
+            let metres = match rules.rules.get(k) {
+                Some(r) if r.on == Target::Stretch => step.share() * edge.length_m,
+                _ => 0.0,
             };
             let street = street_of(graph, edge, streets)
                 .map(street_label)
@@ -118,12 +131,12 @@ pub fn route_site_checks(
                 Some(x) => {
                     x.2 += metres;
                     for w in what {
-                        if !x.3.contains(&w) {
-                            x.3.push(w);
+                        if !x.3.contains(w) {
+                            x.3.push(w.clone());
                         }
                     }
                 }
-                None => found.push((k, street, metres, what)),
+                None => found.push((k, street, metres, what.clone())),
             }
         }
     }
@@ -165,7 +178,24 @@ pub fn route_findings(
     students: Students,
     config: &Config,
 ) -> Vec<Finding> {
-    let risk_cfg = &config.risk;
+    let live = OnTheFly {
+        rules,
+        graph,
+        streets,
+        config,
+    };
+    route_findings_with(&live, rules, route, graph, streets, students)
+}
+
+/// [`route_findings`] reading each edge's rule matches and risk from `lookup`.
+pub fn route_findings_with(
+    lookup: &dyn EdgeRuleLookup,
+    rules: &RuleSet,
+    route: &Route,
+    graph: &PedGraph,
+    streets: &[Street],
+    students: Students,
+) -> Vec<Finding> {
     let mut out: Vec<Finding> = Vec::new();
     // Per stretch rule: metres matched and the worst edge so far.
     let mut stretch: Vec<(f64, Option<(u32, f64)>)> = vec![(0.0, None); rules.rules.len()];
@@ -173,19 +203,23 @@ pub fn route_findings(
         let Some(edge) = graph.edges.get(step.edge as usize) else {
             continue;
         };
-        let Some(facts) = rules.edge_facts(graph, edge, streets, risk_cfg) else {
+        let hits = lookup.hits(step.edge, students);
+        if hits.is_empty() {
             continue;
-        };
-        let risk = edge_risk_points(graph, edge, streets, risk_cfg);
-        for (k, rule) in rules.rules.iter().enumerate() {
-            match &facts {
-                EdgeFacts::Crossing(f)
-                    if rule.fires_on_crossing(f, students)
-                        && !out.iter().any(|x| x.rule == rule.id && x.edge == step.edge) =>
+        }
+        let risk = lookup.risk_points(step.edge);
+        for hit in hits.iter() {
+            let k = hit.0 as usize;
+            let Some(rule) = rules.rules.get(k) else {
+                continue;
+            };
+            match fires(rules, hit) {
+                Some(Target::Crossing)
+                    if !out.iter().any(|x| x.rule == rule.id && x.edge == step.edge) =>
                 {
                     out.push(finding(rule, step.edge, 0.0, risk, graph, streets));
                 }
-                EdgeFacts::Stretch(f) if rule.matches_stretch(f, students) => {
+                Some(Target::Stretch) => {
                     let m = step.share() * edge.length_m;
                     if let Some(acc) = stretch.get_mut(k) {
                         acc.0 += m;
@@ -244,32 +278,21 @@ fn finding(
 /// Longest HCM gap-acceptance wait (s) among the route's crossings that no signal, stop
 /// sign or guard controls.
 pub fn longest_wait_s(route: &Route, graph: &PedGraph, streets: &[Street], config: &Config) -> f64 {
-    use super::rules::ControlTag as T;
-    let r = &config.risk;
+    let live = OnTheFly {
+        rules: &config.score.rules,
+        graph,
+        streets,
+        config,
+    };
+    longest_wait_s_with(&live, route)
+}
+
+/// [`longest_wait_s`] reading each crossing's wait from `lookup`.
+pub fn longest_wait_s_with(lookup: &dyn EdgeRuleLookup, route: &Route) -> f64 {
     route
         .steps
         .iter()
-        .filter_map(|s| graph.edges.get(s.edge as usize))
-        .filter_map(|e| match super::rules::edge_facts(graph, e, streets, r) {
-            Some(EdgeFacts::Crossing(f))
-                if !f
-                    .tags
-                    .iter()
-                    .any(|t| matches!(t, T::Signal | T::Stop | T::AllWayStop | T::Guard)) =>
-            {
-                Some(
-                    gap_delay(
-                        f.width_m,
-                        f.lanes,
-                        peak_flow_per_s(f.vehicles_15min),
-                        r.walk_mps,
-                        r.start_up_s,
-                    )
-                    .average_delay_s,
-                )
-            }
-            _ => None,
-        })
+        .map(|s| lookup.wait_s(s.edge))
         .fold(0.0, f64::max)
 }
 
@@ -278,6 +301,32 @@ pub fn score_home(
     shortest: Option<&AuditedRoute>,
     recommended: Option<&AuditedRoute>,
     safe: Option<&AuditedRoute>,
+    students: Students,
+    graph: &PedGraph,
+    streets: &[Street],
+    config: &Config,
+) -> HomeScore {
+    let live = OnTheFly {
+        rules: &config.score.rules,
+        graph,
+        streets,
+        config,
+    };
+    score_routes(
+        &live,
+        [shortest, recommended, safe],
+        students,
+        graph,
+        streets,
+        config,
+    )
+}
+
+/// [`score_home`] on a home's `[shortest, recommended, safe]` routes, reading each edge's
+/// rule matches, risk and wait from `lookup` (built for `config`'s rule set).
+pub fn score_routes(
+    lookup: &dyn EdgeRuleLookup,
+    [shortest, recommended, safe]: [Option<&AuditedRoute>; 3],
     students: Students,
     graph: &PedGraph,
     streets: &[Street],
@@ -293,14 +342,8 @@ pub fn score_home(
     let active = benefit::active_minutes_per_day(rec.audit.walked_m, b);
     let walk_zone_m = config.score.rules.walk_zone_for(students, b.walk_zone_m);
     let in_zone = sh.audit.network_m <= walk_zone_m;
-    let findings = route_findings(
-        &config.score.rules,
-        &rec.route,
-        graph,
-        streets,
-        students,
-        config,
-    );
+    let rules = &config.score.rules;
+    let findings = route_findings_with(lookup, rules, &rec.route, graph, streets, students);
     let route_ok = findings.is_empty();
     let safe_network_m = safe.map(|r| r.audit.network_m);
     let safe_route = safe_network_m.is_some_and(|m| m <= walk_zone_m);
@@ -331,7 +374,7 @@ pub fn score_home(
         .iter()
         .find(|f| f.verdict == Verdict::Hazardous)
         .filter(|_| !safe_route);
-    let wait = longest_wait_s(&rec.route, graph, streets, config);
+    let wait = longest_wait_s_with(lookup, &rec.route);
     HomeScore {
         routed: true,
         risk: rec.risk,
@@ -348,14 +391,7 @@ pub fn score_home(
         longest_wait_s: wait,
         longest_wait_los: (wait > 0.0).then(|| Los::of_delay_s(wait)),
         findings,
-        site_checks: route_site_checks(
-            &config.score.rules,
-            &rec.route,
-            graph,
-            streets,
-            students,
-            config,
-        ),
+        site_checks: route_site_checks_with(lookup, rules, &rec.route, graph, streets, students),
         walk_zone_m,
     }
 }
@@ -368,6 +404,18 @@ pub fn score_homes(
     streets: &[Street],
     config: &Config,
 ) -> Vec<HomeScore> {
+    // Only the recommended route is scored: its edges are looked up once each.
+    let live = OnTheFly {
+        rules: &config.score.rules,
+        graph,
+        streets,
+        config,
+    };
+    let walked = homes
+        .iter()
+        .filter_map(|h| h.recommended.as_ref())
+        .flat_map(|r| r.route.steps.iter().map(|s| s.edge));
+    let table = EdgeRules::build(live, walked);
     let one = |h: &HomeResult| {
         let students = h
             .assignment
@@ -375,15 +423,8 @@ pub fn score_homes(
             .and_then(|s| schools.get(s))
             .map(|s| s.students)
             .unwrap_or_default();
-        score_home(
-            h.shortest.as_ref(),
-            h.recommended.as_ref(),
-            h.safe.as_ref(),
-            students,
-            graph,
-            streets,
-            config,
-        )
+        let routes = [&h.shortest, &h.recommended, &h.safe].map(Option::as_ref);
+        score_routes(&table, routes, students, graph, streets, config)
     };
     // Each home's score reads only its own routes: natively on every core, collected in home
     // order, so the scores are the same on any number of threads.

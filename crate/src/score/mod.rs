@@ -45,6 +45,7 @@ impl Default for ScoreConfig {
 }
 
 pub mod catchment;
+pub mod edge_rules;
 pub mod home;
 pub mod hotspots;
 pub mod observed;
