@@ -127,3 +127,54 @@ fn flows_count_each_routed_child_on_every_edge_of_its_route() {
     );
     assert_eq!(total, expected);
 }
+
+#[test]
+fn flows_file_lists_every_walked_edge_once_in_edge_order() {
+    // Enough walked edges for several of the blocks the file is written in (2 048 each).
+    let city = synthetic_city::city(4_000, 1_500, 20);
+    let file = |n: &str| {
+        city.files
+            .iter()
+            .find(|(name, _)| *name == n)
+            .map(|(_, t)| t.clone())
+            .unwrap_or_default()
+    };
+    let raw = RawLayers {
+        streets: file("streets.geojson"),
+        crossings: Some(file("crossings.geojson")),
+        schools: file("schools.geojson"),
+        homes: file("homes.csv"),
+        homes_format: HomesFormat::Csv,
+        ..RawLayers::default()
+    };
+    let out = audit_on_threads(&raw, 2);
+    let flows = catchwalk::export::flows::edge_flows(&out);
+    let mut text = Vec::new();
+    if let Err(e) = catchwalk::export::flows::write_flows_geojson(&out, &mut text) {
+        panic!("flows: {e}");
+    }
+    let doc: serde_json::Value = match serde_json::from_slice(&text) {
+        Ok(v) => v,
+        Err(e) => panic!("flows.geojson is not JSON: {e}"),
+    };
+    let features = doc["features"].as_array().cloned().unwrap_or_default();
+    let expected: Vec<(u64, u64, u64)> = flows
+        .iter()
+        .enumerate()
+        .filter(|(_, f)| f.shortest > 0 || f.recommended > 0)
+        .map(|(e, f)| (e as u64, u64::from(f.shortest), u64::from(f.recommended)))
+        .collect();
+    assert!(expected.len() > 2 * 2048, "{} walked edges", expected.len());
+    let got: Vec<(u64, u64, u64)> = features
+        .iter()
+        .map(|f| {
+            let p = &f["properties"];
+            let n = |k: &str| p[k].as_u64().unwrap_or(u64::MAX);
+            (n("edge"), n("children_shortest"), n("children_recommended"))
+        })
+        .collect();
+    assert_eq!(got, expected);
+    assert!(features.iter().all(|f| f["geometry"]["coordinates"]
+        .as_array()
+        .is_some_and(|c| c.len() >= 2)));
+}

@@ -3,11 +3,10 @@
 //! read from it), so it may be shared, and it grows with the network, not with the homes.
 
 use super::edge_side;
-use super::geometry::step_line;
+use super::geometry::edge_line;
 use crate::network::PedGraph;
 use crate::pipeline::AuditOutput;
 use crate::risk::street_of;
-use crate::route::RouteStep;
 use serde::Serialize;
 use std::io::{self, Write};
 
@@ -66,19 +65,22 @@ struct FlowProps<'a> {
 struct FlowFeature<'a> {
     #[serde(rename = "type")]
     kind: &'static str,
-    geometry: serde_json::Value,
+    geometry: FlowLine,
     properties: FlowProps<'a>,
 }
 
+/// A LineString, keys in the order a `json!` map wrote them (alphabetical).
+#[derive(Serialize)]
+struct FlowLine {
+    coordinates: Vec<[f64; 2]>,
+    #[serde(rename = "type")]
+    kind: &'static str,
+}
+
 fn line(graph: &PedGraph, edge: u32) -> Vec<[f64; 2]> {
-    let step = RouteStep {
-        edge,
-        from_frac: 0.0,
-        to_frac: 1.0,
-    };
     // 7 decimals (about 1 cm): the precision the layers carry.
     let r = |x: f64| (x * 1e7).round() / 1e7;
-    step_line(graph, &step)
+    edge_line(graph, edge)
         .into_iter()
         .map(|p| [r(p[0]), r(p[1])])
         .collect()
@@ -94,26 +96,62 @@ pub fn write_flows_geojson(out: &AuditOutput, w: &mut dyn Write) -> io::Result<(
         "{{\"type\":\"FeatureCollection\",\"caution\":{},\"features\":[",
         serde_json::to_string(crate::CAUTION)?
     )?;
-    let mut first = true;
-    for (e, f) in flows.iter().enumerate() {
-        if f.shortest == 0 && f.recommended == 0 {
-            continue;
+    let walked: Vec<u32> = (0..flows.len() as u32)
+        .filter(|&e| {
+            flows
+                .get(e as usize)
+                .is_some_and(|f| f.shortest > 0 || f.recommended > 0)
+        })
+        .collect();
+    // Features are written in blocks on every core natively and joined in edge order, so the
+    // file does not depend on the thread count.
+    let block = |edges: &[u32]| -> io::Result<Vec<u8>> {
+        let mut buf = Vec::new();
+        for &e in edges {
+            let (Some(edge), Some(f)) = (g.edges.get(e as usize), flows.get(e as usize)) else {
+                continue;
+            };
+            let feature = FlowFeature {
+                kind: "Feature",
+                geometry: FlowLine {
+                    coordinates: line(g, e),
+                    kind: "LineString",
+                },
+                properties: FlowProps {
+                    edge: e,
+                    kind: edge_side(&edge.kind),
+                    street_id: street_of(g, edge, &out.layers.streets)
+                        .map_or("", |s| s.id.as_str()),
+                    children_shortest: f.shortest,
+                    children_recommended: f.recommended,
+                },
+            };
+            buf.extend_from_slice(b",\n");
+            serde_json::to_writer(&mut buf, &feature)?;
         }
-        let Some(edge) = g.edges.get(e) else { continue };
-        let feature = FlowFeature {
-            kind: "Feature",
-            geometry: serde_json::json!({"type": "LineString", "coordinates": line(g, e as u32)}),
-            properties: FlowProps {
-                edge: e as u32,
-                kind: edge_side(&edge.kind),
-                street_id: street_of(g, edge, &out.layers.streets).map_or("", |s| s.id.as_str()),
-                children_shortest: f.shortest,
-                children_recommended: f.recommended,
-            },
+        Ok(buf)
+    };
+    // Blocks of 2 048 features, 16 at a time: a few MB in memory, not the whole file.
+    const BLOCK: usize = 2048;
+    let mut first = true;
+    for window in walked.chunks(BLOCK * 16) {
+        #[cfg(not(target_arch = "wasm32"))]
+        let parts: Vec<io::Result<Vec<u8>>> = {
+            use rayon::prelude::*;
+            window.par_chunks(BLOCK).map(block).collect()
         };
-        w.write_all(if first { b"\n" } else { b",\n" })?;
-        first = false;
-        serde_json::to_writer(&mut *w, &feature)?;
+        #[cfg(target_arch = "wasm32")]
+        let parts: Vec<io::Result<Vec<u8>>> = window.chunks(BLOCK).map(block).collect();
+        for p in parts {
+            let p = p?;
+            // Each feature starts ",\n"; the first of the file starts "\n".
+            let body = match (first, p.first()) {
+                (true, Some(_)) => p.get(1..).unwrap_or(&[]),
+                _ => &p[..],
+            };
+            first &= p.is_empty();
+            w.write_all(body)?;
+        }
     }
     w.write_all(b"\n]}\n")
 }

@@ -82,6 +82,55 @@ pub fn step_line(graph: &PedGraph, step: &RouteStep) -> Vec<LonLat> {
     }
 }
 
+/// A whole edge drawn as a map feature (flows, hotspots). A doorstep crossing (mid-block,
+/// from one side to the other, wherever a home stands) is drawn across the street at the
+/// middle of its segment, its crossed width long: a point would make a LineString of one
+/// position, which GeoJSON does not allow (RFC 7946 section 3.1.4: two or more).
+///
+/// ```
+/// let g = catchwalk::network::PedGraph::toy_path(&[10.0]);
+/// assert_eq!(catchwalk::export::geometry::edge_line(&g, 0).len(), 2);
+/// ```
+pub fn edge_line(graph: &PedGraph, edge: u32) -> Vec<LonLat> {
+    let whole = RouteStep {
+        edge,
+        from_frac: 0.0,
+        to_frac: 1.0,
+    };
+    let Some(e) = graph.edges.get(edge as usize) else {
+        return Vec::new();
+    };
+    let doorstep = matches!(e.kind, PedEdgeKind::Crossing { .. }) && e.a == NO_CORNER;
+    let Some(seg) = graph
+        .segments
+        .get(e.segment() as usize)
+        .filter(|_| doorstep)
+    else {
+        return step_line(graph, &whole);
+    };
+    // The street's direction at its middle, from a piece a tenth of its length around it.
+    let piece = slice_line(&seg.line, 0.45, 0.55);
+    let (Some(&a), Some(&b)) = (piece.first(), piece.last()) else {
+        return step_line(graph, &whole);
+    };
+    let mid = slice_line(&seg.line, 0.5, 0.5)
+        .first()
+        .copied()
+        .unwrap_or(a);
+    let frame = crate::geodesy::LocalFrame::new(mid);
+    let (pa, pb) = (frame.to_xy(a), frame.to_xy(b));
+    let (dx, dy) = (pb[0] - pa[0], pb[1] - pa[1]);
+    let len = dx.hypot(dy);
+    let usable = |x: f64| x.is_finite() && x > 0.0;
+    if !usable(len) || !usable(e.length_m) {
+        return vec![mid, mid];
+    }
+    // Half the crossed width to the left and to the right of the centreline.
+    let h = e.length_m / 2.0 / len;
+    let (nx, ny) = (-dy * h, dx * h);
+    vec![frame.to_lonlat([nx, ny]), frame.to_lonlat([-nx, -ny])]
+}
+
 /// A whole route's polyline.
 pub fn route_line(graph: &PedGraph, steps: &[RouteStep]) -> Vec<LonLat> {
     let mut out: Vec<LonLat> = Vec::new();
@@ -99,6 +148,55 @@ pub fn route_line(graph: &PedGraph, steps: &[RouteStep]) -> Vec<LonLat> {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// Every doorstep crossing of the demo town is drawn as two positions, its crossed width
+    /// apart, centred on its segment's middle and square to the street there.
+    #[test]
+    fn doorstep_crossings_are_drawn_across_the_street() {
+        let demo = |f: &str| {
+            std::fs::read_to_string(format!("../sample-maps/demo-town/{f}")).unwrap_or_default()
+        };
+        let raw = crate::input::RawLayers {
+            streets: demo("streets.geojson"),
+            schools: demo("schools.geojson"),
+            homes: demo("homes.geojson"),
+            homes_format: crate::input::HomesFormat::GeoJson,
+            ..Default::default()
+        };
+        let (layers, _) = crate::input::read_layers(&raw).expect("demo town reads");
+        let config = crate::config::Config::default();
+        let g = crate::network::build_network(&layers, &config.network).graph;
+        let mut seen = 0;
+        for (k, e) in g.edges.iter().enumerate() {
+            if !(e.is_crossing() && e.a == NO_CORNER) {
+                continue;
+            }
+            seen += 1;
+            let line = edge_line(&g, k as u32);
+            assert_eq!(line.len(), 2, "edge {k}");
+            let width = distance_m(line[0], line[1]);
+            assert!(
+                (width - e.length_m).abs() < 0.01 * e.length_m,
+                "edge {k}: {width}"
+            );
+            let seg = &g.segments[e.segment() as usize].line;
+            let mid = slice_line(seg, 0.5, 0.5)[0];
+            let centre = [
+                (line[0][0] + line[1][0]) / 2.0,
+                (line[0][1] + line[1][1]) / 2.0,
+            ];
+            assert!(distance_m(mid, centre) < 0.01, "edge {k}");
+            // Square to the street's chord around its middle.
+            let ahead = slice_line(seg, 0.45, 0.55);
+            let f = crate::geodesy::LocalFrame::new(mid);
+            let (a, b) = (f.to_xy(ahead[0]), f.to_xy(ahead[ahead.len() - 1]));
+            let (c, d) = (f.to_xy(line[0]), f.to_xy(line[1]));
+            let (u, v) = ([b[0] - a[0], b[1] - a[1]], [d[0] - c[0], d[1] - c[1]]);
+            let cos = (u[0] * v[0] + u[1] * v[1]) / (u[0].hypot(u[1]) * v[0].hypot(v[1]));
+            assert!(cos.abs() < 1e-6, "edge {k}: cos {cos}");
+        }
+        assert!(seen > 10, "the demo town has doorstep crossings ({seen})");
+    }
 
     #[test]
     fn slicing_takes_the_middle_and_reverses() {

@@ -1,11 +1,10 @@
 //! `hotspots.geojson` and `hotspots.csv`: crossings and sides ranked by children x risk.
 //! Edges, not homes: safe to share.
 
-use super::csv_safe::{csv_text, SafeRow};
-use super::geometry::step_line;
+use super::csv_safe::rows_text;
+use super::geometry::edge_line;
 use super::round2;
 use crate::pipeline::AuditOutput;
-use crate::route::RouteStep;
 use serde::Serialize;
 
 /// One hotspot's properties, keys in the order the former `json!` map wrote them
@@ -65,14 +64,7 @@ pub fn hotspots_geojson(out: &AuditOutput) -> HotspotCollection<'_> {
         .iter()
         .filter(|h| (h.edge as usize) < g.edges.len())
         .map(|h| {
-            let line = step_line(
-                g,
-                &RouteStep {
-                    edge: h.edge,
-                    from_frac: 0.0,
-                    to_frac: 1.0,
-                },
-            );
+            let line = edge_line(g, h.edge);
             HotspotFeature {
                 geometry: HotspotLine {
                     coordinates: line,
@@ -110,8 +102,7 @@ pub fn hotspots_geojson(out: &AuditOutput) -> HotspotCollection<'_> {
 
 /// Hotspots as CSV, ranked.
 pub fn hotspots_csv(out: &AuditOutput) -> String {
-    let mut w = csv::Writer::from_writer(Vec::new());
-    w.safe_row([
+    let header = [
         "rank",
         "edge",
         "kind",
@@ -129,9 +120,12 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
         "crashes",
         "crashes_pedestrian",
         "crashes_ksi",
-    ]);
-    for h in &out.scores.hotspots {
-        w.safe_row([
+    ]
+    .map(String::from);
+    let hot = &out.scores.hotspots;
+    rows_text(&header, hot.len(), |i| {
+        let h = &hot[i];
+        vec![
             h.rank.to_string(),
             h.edge.to_string(),
             h.kind.to_string(),
@@ -149,7 +143,6 @@ pub fn hotspots_csv(out: &AuditOutput) -> String {
             h.crashes.to_string(),
             h.crashes_pedestrian.to_string(),
             h.crashes_ksi.to_string(),
-        ]);
-    }
-    csv_text(w)
+        ]
+    })
 }

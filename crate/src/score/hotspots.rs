@@ -11,7 +11,6 @@ use crate::pipeline::HomeResult;
 use crate::risk::crossing_delay::{gap_delay, Los};
 use crate::risk::volume::peak_flow_per_s;
 use crate::risk::{edge_risk_points, street_of};
-use rustc_hash::FxHashMap as HashMap;
 use serde::Serialize;
 
 /// One ranked hotspot.
@@ -73,21 +72,26 @@ pub fn hotspots(
     streets: &[Street],
     config: &Config,
 ) -> Vec<Hotspot> {
-    // edge -> (children, product)
-    let mut acc: HashMap<u32, (f64, f64)> = HashMap::default();
-    let mut risk_of: HashMap<u32, f64> = HashMap::default();
+    // Per edge: (children, product), and its risk points once walked (`walked` lists those
+    // edges). Dense arrays over the graph's edges: a county's routes take millions of steps.
+    let n = graph.edges.len();
+    let mut acc: Vec<(f64, f64)> = vec![(0.0, 0.0); n];
+    let mut risk_of: Vec<Option<f64>> = vec![None; n];
+    let mut walked: Vec<u32> = Vec::new();
     for (i, h) in homes.iter().enumerate() {
         let (Some(rec), Some(home)) = (&h.recommended, layer_homes.get(i)) else {
             continue;
         };
         let w = home.children as f64;
         for step in &rec.route.steps {
-            let Some(edge) = graph.edges.get(step.edge as usize) else {
+            let k = step.edge as usize;
+            let (Some(edge), Some(r)) = (graph.edges.get(k), risk_of.get_mut(k)) else {
                 continue;
             };
-            let r = *risk_of
-                .entry(step.edge)
-                .or_insert_with(|| edge_risk_points(graph, edge, streets, &config.risk));
+            let r = *r.get_or_insert_with(|| {
+                walked.push(step.edge);
+                edge_risk_points(graph, edge, streets, &config.risk)
+            });
             if r <= 0.0 {
                 continue;
             }
@@ -96,15 +100,19 @@ pub fn hotspots(
             } else {
                 step.share()
             };
-            let a = acc.entry(step.edge).or_insert((0.0, 0.0));
-            a.0 += w;
-            a.1 += w * share * r;
+            if let Some(a) = acc.get_mut(k) {
+                a.0 += w;
+                a.1 += w * share * r;
+            }
         }
     }
-    let mut out: Vec<Hotspot> = acc
+    let mut out: Vec<Hotspot> = walked
         .into_iter()
-        .filter(|(_, (c, _))| *c > 0.0)
-        .filter_map(|(e, (children, product))| {
+        .filter_map(|e| {
+            let (children, product) = acc.get(e as usize).copied()?;
+            if children <= 0.0 {
+                return None;
+            }
             let edge = graph.edges.get(e as usize)?;
             let street = street_of(graph, edge, streets)?;
             let (kind, control) = match &edge.kind {
@@ -142,7 +150,7 @@ pub fn hotspots(
                 speed_kmh: street.speed_kmh,
                 lanes: street.lanes,
                 children,
-                risk: risk_of.get(&e).copied().unwrap_or(0.0),
+                risk: risk_of.get(e as usize).copied().flatten().unwrap_or(0.0),
                 product,
                 wait_s,
                 los,
