@@ -187,8 +187,9 @@ pub fn caution() -> String {
 }
 
 /// Grows the wasm memory once, before an audit, to about what an audit of `layers_bytes` of
-/// layers needs (16 bytes per byte of layers text: 384 MB for a 24 MB, 100 k-segment
-/// district whose audit peaks at about 400 MB), by taking one block and giving it back to the
+/// layers needs (13 bytes per byte of layers text: 364 MB for the 28 MB page layers of a
+/// 100 k-segment, 50 000-home district whose audit, document written, peaks at 384 MB without
+/// this; 16 bytes overshot to 491 MB), by taking one block and giving it back to the
 /// allocator.
 /// Rust's wasm allocator grows memory by little more than each allocation needs, and each
 /// `memory.grow` is dear in the JavaScript engine: without this, the first audit of that
@@ -197,7 +198,7 @@ pub fn caution() -> String {
 /// shrinks in wasm, and the audit reaches this size anyway.
 fn reserve_heap(layers_bytes: usize) {
     let have = core::arch::wasm32::memory_size(0) * 65536;
-    let want = layers_bytes.saturating_mul(16).min(1 << 30);
+    let want = layers_bytes.saturating_mul(13).min(1 << 30);
     if want > have + (have / 4) {
         drop(std::hint::black_box(Vec::<u8>::with_capacity(want - have)));
     }
@@ -247,7 +248,11 @@ struct AuditDoc<'a> {
     /// Which held audit this is: [`route_lines`] draws its routes (the document carries none).
     audit_id: u32,
     qa: Value,
-    centrelines: export::layers_geojson::Collection<export::layers_geojson::SegmentProps<'a>>,
+    /// West, south, east, north of the noded centrelines (the centrelines themselves come from
+    /// [`map_streets`]: the page hands them to the map without parsing them).
+    bounds: Option<[f64; 4]>,
+    /// The named streets as drawn, with their names (labels, the find box).
+    street_names: export::layers_geojson::Collection<export::layers_geojson::NameProps<'a>>,
     hotspots: export::hotspots::HotspotCollection<'a>,
     layers: Value,
     warnings: &'a [crate::error::Warning],
@@ -265,8 +270,10 @@ struct AuditDoc<'a> {
 /// catchments?, crashes?, preset?, mapping?, names?, crs?}` with each layer as text (binary files
 /// first through [`layer_to_geojson`]); `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
-/// catchments and hotspots CSV tables, the id of the held audit (routes come from [`route_lines`]), QA, centrelines, hotspots, the validated layers and the warnings. An error comes
-/// back as `{message, at}` JSON.
+/// catchments and hotspots CSV tables, the id of the held audit (routes come from
+/// [`route_lines`], the centrelines from [`map_streets`]), QA, the centrelines' bounds,
+/// the named streets, hotspots, the validated layers and the warnings. An error comes back as
+/// `{message, at}` JSON.
 #[wasm_bindgen]
 pub fn audit(
     layers_json: &str,
@@ -377,6 +384,49 @@ pub fn route_lines(audit_id: u32, query_json: &str) -> Result<String, JsValue> {
     })
 }
 
+/// Runs `f` on the held audit `audit_id`, or says it is no longer held.
+fn with_held<T>(
+    audit_id: u32,
+    f: impl FnOnce(&AuditOutput) -> Result<T, JsValue>,
+) -> Result<T, JsValue> {
+    HELD.with(|held| {
+        let held = held.borrow();
+        match held.audits.iter().find(|(id, _)| *id == audit_id) {
+            Some((_, out)) => f(out),
+            None => Err(to_js(format!(
+                "audit {audit_id} is no longer held by the worker: run it again"
+            ))),
+        }
+    })
+}
+
+/// The id of the audit the worker took last (0 before any): the worker asks for its
+/// centrelines right after [`audit`] or [`reaudit`].
+#[wasm_bindgen(js_name = lastAuditId)]
+pub fn last_audit_id() -> u32 {
+    HELD.with(|held| held.borrow().audits.last().map_or(0, |(id, _)| *id))
+}
+
+/// The noded centrelines of a held audit as the map draws them (segment index, class, speed),
+/// GeoJSON text: the worker wraps it in a Blob the map reads by URL, so the page's thread never
+/// parses a district's segments. [`segment_feature`] gives one segment's every property.
+#[wasm_bindgen(js_name = mapStreets)]
+pub fn map_streets(audit_id: u32) -> Result<String, JsValue> {
+    with_held(audit_id, |out| {
+        serde_json::to_string(&export::layers_geojson::map_streets_geojson(out)).map_err(to_js)
+    })
+}
+
+/// Segment `segment` of a held audit's centrelines as one GeoJSON feature (`null` when there
+/// is no such segment): what a click on the map landed on, with its exact geometry.
+#[wasm_bindgen(js_name = segmentFeature)]
+pub fn segment_feature(audit_id: u32, segment: u32) -> Result<String, JsValue> {
+    with_held(audit_id, |out| {
+        let f = export::layers_geojson::centreline_feature(out, segment as usize);
+        serde_json::to_string(&f).map_err(to_js)
+    })
+}
+
 fn audit_doc(out: &AuditOutput, audit_id: u32, extra: Option<Value>) -> Result<String, JsValue> {
     let doc = AuditDoc {
         summary: export::summary_json(out),
@@ -385,7 +435,8 @@ fn audit_doc(out: &AuditOutput, audit_id: u32, extra: Option<Value>) -> Result<S
         hotspots_csv: export::hotspots_csv(out),
         audit_id,
         qa: export::qa_geojson(&out.network.qa),
-        centrelines: export::centrelines_geojson(out),
+        bounds: export::layers_geojson::centrelines_bounds(out),
+        street_names: export::layers_geojson::street_names_geojson(out),
         hotspots: export::hotspots_geojson(out),
         layers: json!({
             "crossings": out.layers.crossings,

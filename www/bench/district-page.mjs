@@ -74,7 +74,7 @@ try {
   const r = await page.evaluate(() => ({ total: Number(document.body.dataset.auditMs), core: Number(document.body.dataset.coreMs),
     mainHeapMb: Math.round(performance.memory.usedJSHeapSize / 2 ** 20), coreMb: Math.round((window.catchwalk.view().summary && window.catchwalk.coreMemory()) / 2 ** 20) }));
   const t0 = Date.now();
-  await page.evaluate(() => new Promise((ok) => window.catchwalk.map.once('idle', ok)));
+  await page.evaluate(() => new Promise((ok) => window.catchwalk.map.once('idle', () => ok())));
   const mapIdle = Date.now() - t0;
   // One home's routes, then one catchment's, asked of the worker and drawn.
   const drawn = () => page.evaluate(() => Number(document.body.dataset.routesDrawn ?? -1));
@@ -84,7 +84,7 @@ try {
   const homeMs = Date.now() - t1;
   const homeRoutes = await drawn();
   // A second home, once the map has settled from the first.
-  await page.evaluate(() => new Promise((ok) => window.catchwalk.map.once('idle', ok)));
+  await page.evaluate(() => new Promise((ok) => window.catchwalk.map.once('idle', () => ok())));
   const t3 = Date.now();
   await page.evaluate(() => window.catchwalk.select('home', 'H18'));
   await page.waitForFunction(() => document.body.dataset.routesDrawn !== undefined, null, { timeout: 60_000 });

@@ -127,7 +127,8 @@ export function drawCharts(view: View) {
   // Route lengths, weighted by children, in 200 m bins, the walk zone marked.
   const bin = 200;
   const lens = view.homes.filter((h) => h.shortestM !== null).map((h) => ({ m: h.shortestM ?? 0, w: h.children }));
-  const top = Math.max(view.walkZoneM * 1.5, ...lens.map((l) => l.m));
+  // A loop, not a spread: a county's homes are more arguments than a call may take.
+  const top = lens.reduce((t, l) => Math.max(t, l.m), view.walkZoneM * 1.5);
   const nb = Math.max(1, Math.ceil(top / bin));
   const counts = new Array(nb).fill(0);
   for (const l of lens) counts[Math.min(nb - 1, Math.floor(l.m / bin))] += l.w;

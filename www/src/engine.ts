@@ -1,7 +1,7 @@
 // The page's side of the audit worker: starts it, hands it the compiled core, runs audits,
 // and cancels by terminating the worker and starting a fresh one.
 
-import type { FeatureCollection, FromWorker, RouteProps, ToWorker } from './types';
+import type { Feature, FeatureCollection, FromWorker, RouteProps, ToWorker } from './types';
 
 /** What the build inlines into the single-file page (absent when served as files). */
 export interface Inline {
@@ -28,6 +28,8 @@ export interface AuditResult {
   docText: string;
   ms: number;
   bytes?: Uint8Array;
+  /** An audit's centrelines GeoJSON (audits and re-audits). */
+  streets?: Blob;
 }
 
 function base64ToBytes(b64: string): Uint8Array {
@@ -125,7 +127,7 @@ export class Engine {
     if (m.type === 'progress') p.onProgress({ stage: m.stage, done: m.done, total: m.total });
     else if (m.type === 'done') {
       this.pending.delete(m.id);
-      p.resolve({ docText: m.doc, ms: m.ms, bytes: m.bytes });
+      p.resolve({ docText: m.doc, ms: m.ms, bytes: m.bytes, streets: m.streets });
     } else if (m.type === 'failed') {
       this.pending.delete(m.id);
       // A trap inside the core leaves its memory in an unknown state: start a fresh worker.
@@ -173,6 +175,12 @@ export class Engine {
   /** [`routes`] as the core's GeoJSON text (an export saves it as it is). */
   async routesText(auditId: number, query: RouteQuery): Promise<string> {
     return (await this.send((id) => ({ type: 'routes', id, audit: auditId, query: JSON.stringify(query) }), () => {})).docText;
+  }
+
+  /** Segment `segment` of the held audit `auditId`'s centrelines (null when there is none). */
+  async segment(auditId: number, segment: number): Promise<Feature | null> {
+    const r = await this.send((id) => ({ type: 'segment', id, audit: auditId, segment }), () => {});
+    return JSON.parse(r.docText) as Feature | null;
   }
 
   /** Lets the worker drop a held audit the page no longer shows. */

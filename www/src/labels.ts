@@ -5,7 +5,6 @@
 // than asking anyone outside.
 
 import maplibregl from 'maplibre-gl';
-import type { FeatureCollection } from './types';
 
 declare const CATCHWALK_GLYPH_RANGES: string[];
 
@@ -38,24 +37,4 @@ export function registerGlyphs() {
     const r = await fetch(`glyphs/${range}.pbf`);
     return { data: r.ok ? await r.arrayBuffer() : new ArrayBuffer(0) };
   });
-}
-
-/** The property that names a street: `name`, or what a mapping file gives for streets.name. */
-function nameProperties(mapping: unknown): string[] {
-  const m = (mapping as { streets?: { name?: unknown } } | null)?.streets?.name;
-  const from = typeof m === 'object' && m !== null && !Array.isArray(m) ? (m as { from?: unknown }).from : m;
-  const names = typeof from === 'string' ? [from] : Array.isArray(from) ? from.filter((x): x is string => typeof x === 'string') : [];
-  return [...names, 'name'];
-}
-
-/** The planner's streets as drawn in their file, with just the name to label them by. */
-export function streetNames(streets: FeatureCollection | null, mapping: unknown): FeatureCollection {
-  const keys = nameProperties(mapping);
-  const features = (streets?.features ?? []).flatMap((f) => {
-    const t = f.geometry?.type;
-    if (t !== 'LineString' && t !== 'MultiLineString') return [];
-    const v = keys.map((k) => f.properties?.[k]).find((x) => typeof x === 'string' && x.trim() !== '');
-    return typeof v === 'string' ? [{ type: 'Feature' as const, geometry: f.geometry, properties: { name: v.trim() } }] : [];
-  });
-  return { type: 'FeatureCollection', features };
 }

@@ -2,7 +2,7 @@
 
 import { chartImages, drawCharts } from './charts';
 import { $, download, el } from './dom';
-import { Engine, utf8Text } from './engine';
+import { Engine, utf8Text, type AuditResult } from './engine';
 import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
 import { buildView, routesByHome, type View } from './model';
@@ -10,7 +10,6 @@ import { DEVICES, HOME_STATUS, PATH_COLOR, QA_COLOR, ROUTE_STYLE, SPEED_BANDS, d
 import { buildReport } from './report';
 import { catchmentPanel, districtPanel, homePanel } from './selection';
 import { FindBox, findIndex, type Found } from './find';
-import { streetNames } from './labels';
 import { isBinary, placeFile, type Placement } from './placement';
 import { Settings } from './settings';
 import { CatchmentTable } from './table';
@@ -64,6 +63,23 @@ findBox.setIndex([]);
 /** Audits by interventions text ('' is the existing network), as the core returned them. */
 const views = new Map<string, View>();
 const VIEW_CACHE = 4;
+
+/** An audit document as the worker sent it, with its centrelines' object URL for the map. */
+function docOf(r: AuditResult): AuditDoc {
+  const doc = JSON.parse(r.docText) as AuditDoc;
+  if (r.streets) {
+    doc.streets_blob = r.streets;
+    doc.streets_url = URL.createObjectURL(r.streets);
+  }
+  return doc;
+}
+
+/** Lets go of a view's centrelines Blob once no cached view or the one shown uses it. */
+function releaseStreets(gone: View) {
+  const url = gone.doc.streets_url;
+  if (url && view?.doc.streets_url !== url && ![...views.values()].some((x) => x.doc.streets_url === url)) URL.revokeObjectURL(url);
+}
+
 function keep(key: string, v: View) {
   views.delete(key);
   views.set(key, v);
@@ -72,14 +88,18 @@ function keep(key: string, v: View) {
     if (old === undefined) break;
     const gone = views.get(old);
     views.delete(old);
+    if (gone) releaseStreets(gone);
     // The worker holds each view's audit for its routes; this one is no longer shown.
     if (gone && ![...views.values()].some((x) => x.doc.audit_id === gone.doc.audit_id)) engine.release(gone.doc.audit_id);
   }
 }
-const scenarios = new Scenarios(map, { changed: () => { runScenario(); changed(); }, view: () => view, status: setStatus });
+/** The segment of the shown audit's centrelines a click landed on, from the worker. */
+const segmentOf = (i: number): Promise<Feature | null> => (view ? engine.segment(view.doc.audit_id, i) : Promise.resolve(null));
+const scenarios = new Scenarios(map, { changed: () => { runScenario(); changed(); }, view: () => view, status: setStatus, segment: segmentOf });
 const notes = new Notes(map, {
   changed: () => changed(),
   view: () => view,
+  segment: segmentOf,
   status: setStatus,
   takeMap: () => scenarios.disarm(),
   observe: (iv: Intervention) => scenarios.push(iv),
@@ -91,7 +111,7 @@ const compare = new Compare(map, {
     const have = views.get(key);
     if (have) return have;
     const r = await engine.reaudit(key, () => {});
-    const v = buildView(JSON.parse(r.docText) as AuditDoc);
+    const v = buildView(docOf(r));
     keep(key, v);
     return v;
   },
@@ -268,15 +288,17 @@ async function runAudit(fit: boolean) {
       ($('progress-fill') as HTMLElement).style.width = `${Math.round(((i + share) / order.length) * 100)}%`;
       $('progress-text').textContent = `${p.stage}${p.total > 1 ? ` ${p.done} / ${p.total}` : ''}`;
     });
-    let doc = JSON.parse(res.docText) as AuditDoc;
+    let doc = docOf(res);
+    const before = [...views.values()];
     views.clear();
+    for (const v of before) releaseStreets(v);
     keep('', buildView(doc));
     let coreMs = res.ms;
     const list = interventionsText(scenarios.current());
     if (list) {
       $('progress-text').textContent = `scenario “${scenarios.name()}”`;
       const r2 = await engine.reaudit(list, () => {});
-      doc = JSON.parse(r2.docText) as AuditDoc;
+      doc = docOf(r2);
       coreMs += r2.ms;
     }
     $('plan-out').replaceChildren();
@@ -306,7 +328,7 @@ async function runScenario() {
     if (cached) doc = cached.doc;
     else {
       const r = await engine.reaudit(list, () => {});
-      doc = JSON.parse(r.docText) as AuditDoc;
+      doc = docOf(r);
       coreMs = r.ms;
       const re = doc['reaudit'] as { core_ms?: number; schools_rerouted?: number; schools?: number; full?: boolean } | undefined;
       if (re) {
@@ -336,7 +358,7 @@ async function display(doc: AuditDoc, fitNow: boolean, t0: number, coreMs: numbe
     view = views.get(list)?.doc === doc ? views.get(list) as View : buildView(doc);
     keep(list, view);
     await map.show(view, layerJson('catchments'), fitNow);
-    const names = streetNames(layerJson('streets'), layerJson('mapping'));
+    const names = doc.street_names;
     await map.setStreetNames(names);
     findBox.setIndex(findIndex(view, names));
     map.showFound([]);
@@ -628,7 +650,7 @@ async function printReport() {
   map.hideHomes(!individual);
   map.showFound([]);
   if (scope) select('catchment', scope);
-  else { selected = null; reselect(); map.fit(view.doc.centrelines); }
+  else { selected = null; reselect(); map.fitBox(view.doc.bounds); }
   await new Promise<void>((r) => map.map.once('idle', () => r()));
   const mapImage = map.image();
   map.hideHomes(false);
@@ -671,7 +693,7 @@ $('report-close').addEventListener('click', () => { $('report').hidden = true; d
 
 document.querySelectorAll<HTMLElement>('.tabs button').forEach((b) => b.addEventListener('click', () => showTab(b.dataset.tab ?? 'sel')));
 $('demo').addEventListener('click', () => loadDemo());
-$('fit-all').addEventListener('click', () => { if (view) map.fit(view.doc.centrelines, 18); });
+$('fit-all').addEventListener('click', () => { if (view) map.fitBox(view.doc.bounds, 18); });
 $('run').addEventListener('click', () => runAudit(false));
 $('preset').addEventListener('change', () => schedule());
 $('cancel').addEventListener('click', async () => {

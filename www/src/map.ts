@@ -25,6 +25,7 @@ import type { View } from './model';
 import type { Feature, FeatureCollection } from './types';
 import { addCrashLayer, crashFeatures, crashPopupLines } from './crashes';
 
+
 const empty = (): FeatureCollection => ({ type: 'FeatureCollection', features: [] });
 type SourceData = maplibregl.GeoJSONSourceSpecification['data'];
 const data = (fc: FeatureCollection) => fc as unknown as SourceData;
@@ -304,7 +305,13 @@ export class AuditMap {
   async show(view: View, catchmentFile: FeatureCollection | null, fit: boolean) {
     await this.loaded;
     const doc = view.doc;
-    this.set('streets', doc.centrelines);
+    // The centrelines by URL: MapLibre fetches and parses them in its own worker. A page opened
+    // from disk has no origin its map workers may fetch a Blob URL from: there the page parses
+    // them and hands MapLibre the object.
+    const streets = (this.map.getSource('streets') as GeoJSONSource | undefined);
+    if (!doc.streets_blob || !doc.streets_url) streets?.setData(data(empty()));
+    else if (location.protocol !== 'file:') streets?.setData(doc.streets_url);
+    else streets?.setData(data(JSON.parse(await doc.streets_blob.text()) as FeatureCollection));
     this.set('crossings', {
       type: 'FeatureCollection',
       features: doc.layers.crossings.map((c) => ({
@@ -323,7 +330,7 @@ export class AuditMap {
     });
     this.set('qa', doc.qa);
     this.set('crashes', crashFeatures(doc));
-    const maxHot = Math.max(1e-9, ...view.hotspots.map((f) => Number(f.properties['product'] ?? 0)));
+    const maxHot = view.hotspots.reduce((m, f) => Math.max(m, Number(f.properties['product'] ?? 0)), 1e-9);
     this.set('hotspots', {
       type: 'FeatureCollection',
       features: view.hotspots.map((f) => ({
@@ -335,8 +342,8 @@ export class AuditMap {
     this.setCatchments(view, catchmentFile, null);
     this.setSchools(view);
     if (fit) {
-      const b = bounds(doc.centrelines);
-      if (b) this.map.fitBounds(b, { padding: this.padding(20), duration: 0 });
+      const b = doc.bounds;
+      if (b) this.map.fitBounds([[b[0], b[1]], [b[2], b[3]]], { padding: this.padding(20), duration: 0 });
     }
   }
 
@@ -427,6 +434,12 @@ export class AuditMap {
     const capture = this.map.getContainer().classList.contains('capture');
     const left = legend && !capture && !legend.classList.contains('folded') ? legend.offsetWidth + 20 : 0;
     return { top: extra, bottom: extra, right: extra, left: left + extra };
+  }
+
+  /** Fits the map to west, south, east, north bounds (nothing for none). */
+  fitBox(b: [number, number, number, number] | null, maxZoom = 17) {
+    const still = this.map.getContainer().classList.contains('capture');
+    if (b) this.map.fitBounds([[b[0], b[1]], [b[2], b[3]]], { padding: this.padding(50), maxZoom, duration: still ? 0 : 300 });
   }
 
   fit(fc: FeatureCollection | Feature[], maxZoom = 17) {

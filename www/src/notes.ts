@@ -31,6 +31,8 @@ export interface NoteEvents {
   changed: () => void;
   view: () => View | null;
   status: (text: string) => void;
+  /** A segment of the shown audit's centrelines by its index (the worker holds them). */
+  segment: (i: number) => Promise<Feature | null>;
   /** Another tool must let go of the map. */
   takeMap: () => void;
   /** The note's correction goes into the scenario shown. */
@@ -99,7 +101,7 @@ export class Notes {
   arm(on: boolean) {
     if (on) this.ev.takeMap();
     this.armed = on;
-    this.map.onPick = on ? (p) => this.drop(p) : null;
+    this.map.onPick = on ? (p) => { this.drop(p).catch((e: Error) => this.ev.status(`The note could not be placed: ${e.message}`)); } : null;
     this.map.armed(on);
     $('note-arm').textContent = on ? 'Click the map…' : 'Drop a note';
     $('note-arm').classList.toggle('tool-on', on);
@@ -109,10 +111,9 @@ export class Notes {
     if (this.armed) { this.armed = false; $('note-arm').textContent = 'Drop a note'; $('note-arm').classList.remove('tool-on'); }
   }
 
-  private drop(p: Pick) {
+  private async drop(p: Pick) {
     this.arm(false);
-    const v = this.ev.view();
-    const seg = p.segment !== null ? v?.doc.centrelines.features.find((f) => Number(f.properties['segment']) === p.segment) as Feature | undefined : undefined;
+    const seg = p.segment !== null ? await this.ev.segment(p.segment) : null;
     let note: Note;
     const id = `n${Date.now().toString(36)}`;
     const base = { id, checklist: emptyChecklist(), text: '', photos: [], visited: new Date().toISOString().slice(0, 16), observed: null };

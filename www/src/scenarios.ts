@@ -47,6 +47,8 @@ export interface ScenarioEvents {
   changed: () => void;
   view: () => View | null;
   status: (text: string) => void;
+  /** A segment of the shown audit's centrelines by its index (the worker holds them). */
+  segment: (i: number) => Promise<Feature | null>;
 }
 
 export class Scenarios {
@@ -168,7 +170,7 @@ export class Scenarios {
   arm(on: boolean) {
     this.armed = on;
     this.path = [];
-    this.map.onPick = on ? (p) => this.pick(p) : null;
+    this.map.onPick = on ? (p) => { this.pick(p).catch((e: Error) => this.ev.status(`The change could not be placed: ${e.message}`)); } : null;
     this.map.armed(on);
     this.syncTool();
   }
@@ -199,15 +201,9 @@ export class Scenarios {
           : `Click the path's points (${this.path.length} so far; ends join a street at its vertices), then “Finish path”.`;
   }
 
-  private segmentOf(i: number | null): Feature | null {
-    const v = this.ev.view();
-    if (i === null || !v) return null;
-    return (v.doc.centrelines.features.find((f) => Number(f.properties['segment']) === i) as Feature | undefined) ?? null;
-  }
-
-  private pick(p: Pick) {
+  private async pick(p: Pick) {
     const k = this.kind();
-    const seg = this.segmentOf(p.segment);
+    const seg = p.segment === null || !this.ev.view() ? null : await this.ev.segment(p.segment);
     if (k.on === 'path') {
       const snap = seg ? snapToLine(seg, p.at) : null;
       this.path.push(snap && snap.vertexM <= PATH_SNAP_M ? snap.vertex : p.at);

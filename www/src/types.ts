@@ -113,7 +113,15 @@ export interface AuditDoc {
   /** The audit the worker holds for this document: its routes come from `Engine.routes`. */
   audit_id: number;
   qa: FeatureCollection;
-  centrelines: FeatureCollection;
+  /** West, south, east, north of the noded centrelines (null for none). */
+  bounds: [number, number, number, number] | null;
+  /** The named streets as drawn, with their names: labels and the find box. */
+  street_names: FeatureCollection;
+  /** The centrelines GeoJSON as an object URL of the worker's Blob, set by the page: the map
+   * reads it in its own worker, so the page's thread never parses a district's segments. */
+  streets_url?: string;
+  /** The Blob behind `streets_url` (a page opened from disk parses it: see `AuditMap.show`). */
+  streets_blob?: Blob;
   layers: {
     crossings: CrossingPoint[];
     schools: School[];
@@ -144,6 +152,7 @@ export type ToWorker =
 
   | { type: 'reaudit'; id: number; interventions: string }
   | { type: 'routes'; id: number; audit: number; query: string }
+  | { type: 'segment'; id: number; audit: number; segment: number }
   | { type: 'release'; id: number; audit: number }
   | { type: 'compare'; id: number; before: string; after: string }
   | { type: 'write_project'; id: number; project: string }
@@ -152,5 +161,5 @@ export type ToWorker =
 export type FromWorker =
   | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string>; configBounds?: string }
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
-  | { type: 'done'; id: number; doc: string; ms: number; bytes?: Uint8Array }
+  | { type: 'done'; id: number; doc: string; ms: number; bytes?: Uint8Array; streets?: Blob }
   | { type: 'failed'; id: number; error: string };

@@ -48,6 +48,13 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
     return;
   }
+  if (msg.type === 'segment') {
+    // One segment of a held audit's centrelines (what a click landed on), exact geometry.
+    try {
+      post({ type: 'done', id: msg.id, doc: core.segmentFeature(msg.audit, msg.segment), ms: 0 });
+    } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
+    return;
+  }
   if (msg.type === 'release') {
     core.releaseAudit(msg.audit);
     post({ type: 'done', id: msg.id, doc: '', ms: 0 });
@@ -76,7 +83,10 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
       const doc = msg.type === 'reaudit' ? core.reaudit(msg.interventions, progress) : msg.type === 'plan'
         ? (core as unknown as { plan: (l: string, c: string, b: number, p: typeof progress) => string }).plan(msg.layers, msg.config, msg.budget, progress)
         : core.audit(msg.layers, msg.config, progress);
-      post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
+      // The centrelines go as a Blob the map reads by URL, not inside the document the page parses.
+      const streets = msg.type === 'plan' ? undefined
+        : new Blob([core.mapStreets(core.lastAuditId())], { type: 'application/geo+json' });
+      post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0, streets });
     } catch (e) {
       post({ type: 'failed', id: msg.id, error: String(e) });
     }

@@ -215,8 +215,49 @@ pub struct SegmentProps<'a> {
 /// The noded centreline graph: one LineString per segment with its end junctions and
 /// geodesic length, so an outside graph library can recompute shortest paths.
 pub fn centrelines_geojson(out: &AuditOutput) -> Collection<SegmentProps<'_>> {
-    let g = &out.network.graph;
-    let features = g
+    let features = (0..out.network.graph.segments.len())
+        .filter_map(|i| centreline_feature(out, i))
+        .collect();
+    typed_collection(features)
+}
+
+/// Segment `i` of the noded centrelines as its feature in [`centrelines_geojson`] (`None` past
+/// the last segment): the page asks the worker for the one segment a click landed on.
+pub fn centreline_feature(out: &AuditOutput, i: usize) -> Option<Feature<SegmentProps<'_>>> {
+    let s = out.network.graph.segments.get(i)?;
+    let st = out.layers.streets.get(s.street)?;
+    Some(feature(
+        s.line.clone(),
+        SegmentProps {
+            segment: i,
+            from: s.from,
+            to: s.to,
+            length_m: s.length_m,
+            street_id: &st.id,
+            class: st.class.as_str(),
+            speed_kmh: st.speed_kmh,
+            lanes: st.lanes,
+            layer: st.layer,
+            crossing_width_m: crossing_width_m(&out.config.network, st),
+        },
+    ))
+}
+
+/// What the page's map draws a segment by: its index (a click asks the worker for the rest),
+/// its class and its speed. A third of the full properties' text, and so of what the map's
+/// tiling worker holds for a district.
+#[derive(Debug, Serialize)]
+pub struct MapSegmentProps {
+    pub segment: usize,
+    pub class: &'static str,
+    pub speed_kmh: f64,
+}
+
+/// The noded centrelines as the page's map draws them ([`MapSegmentProps`]).
+pub fn map_streets_geojson(out: &AuditOutput) -> Collection<MapSegmentProps> {
+    let features = out
+        .network
+        .graph
         .segments
         .iter()
         .enumerate()
@@ -224,19 +265,60 @@ pub fn centrelines_geojson(out: &AuditOutput) -> Collection<SegmentProps<'_>> {
             let st = out.layers.streets.get(s.street)?;
             Some(feature(
                 s.line.clone(),
-                SegmentProps {
+                MapSegmentProps {
                     segment: i,
-                    from: s.from,
-                    to: s.to,
-                    length_m: s.length_m,
-                    street_id: &st.id,
                     class: st.class.as_str(),
                     speed_kmh: st.speed_kmh,
-                    lanes: st.lanes,
-                    layer: st.layer,
-                    crossing_width_m: crossing_width_m(&out.config.network, st),
                 },
             ))
+        })
+        .collect();
+    typed_collection(features)
+}
+
+/// The west, south, east and north bounds of the noded centrelines in degrees (`None` for no
+/// segments): what the page fits the map to without holding every segment.
+pub fn centrelines_bounds(out: &AuditOutput) -> Option<[f64; 4]> {
+    let mut points = out
+        .network
+        .graph
+        .segments
+        .iter()
+        .flat_map(|s| s.line.iter())
+        .filter(|p| p[0].is_finite() && p[1].is_finite());
+    let first = points.next()?;
+    Some(
+        points.fold([first[0], first[1], first[0], first[1]], |b, p| {
+            [
+                b[0].min(p[0]),
+                b[1].min(p[1]),
+                b[2].max(p[0]),
+                b[3].max(p[1]),
+            ]
+        }),
+    )
+}
+
+/// A street's name, to label it on the map and find it by.
+#[derive(Debug, Serialize)]
+pub struct NameProps<'a> {
+    pub name: &'a str,
+}
+
+/// Every named street (each part of a MultiLineString) as drawn in the streets layer, with its
+/// name as the streets layer gives it (after the preset or mapping file, trimmed).
+pub fn street_names_geojson(out: &AuditOutput) -> Collection<NameProps<'_>> {
+    let features = out
+        .layers
+        .streets
+        .iter()
+        .filter_map(|st| {
+            let name = st
+                .name
+                .as_deref()
+                .map(str::trim)
+                .filter(|n| !n.is_empty())?;
+            Some(feature(st.line.clone(), NameProps { name }))
         })
         .collect();
     typed_collection(features)
