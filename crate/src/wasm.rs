@@ -249,7 +249,7 @@ struct AuditDoc<'a> {
     audit_id: u32,
     qa: Value,
     /// West, south, east, north of the noded centrelines (the centrelines themselves come from
-    /// [`map_streets`]: the page hands them to the map without parsing them).
+    /// [`street_tile`] as map tiles: the page never parses them).
     bounds: Option<[f64; 4]>,
     /// The named streets as drawn, with their names (labels, the find box).
     street_names: export::layers_geojson::Collection<export::layers_geojson::NameProps<'a>>,
@@ -271,7 +271,7 @@ struct AuditDoc<'a> {
 /// first through [`layer_to_geojson`]); `config_json`: a config
 /// (empty for defaults). Returns one JSON: summary (with the catchment scores), the homes,
 /// catchments and hotspots CSV tables, the id of the held audit (routes come from
-/// [`route_lines`], the centrelines from [`map_streets`]), QA, the centrelines' bounds,
+/// [`route_lines`], the centrelines as map tiles from [`street_tile`]), QA, the centrelines' bounds,
 /// the named streets, hotspots, the validated layers and the warnings. An error comes back as
 /// `{message, at}` JSON.
 #[wasm_bindgen]
@@ -284,6 +284,7 @@ pub fn audit(
     HELD.with(|held| {
         let mut held = held.borrow_mut();
         held.audits.clear();
+        held.tiles = None;
         held.hold(out, None)
     })
 }
@@ -297,6 +298,8 @@ const HELD_AUDITS: usize = 8;
 struct Held {
     next_id: u32,
     audits: Vec<(u32, AuditOutput)>,
+    /// The segment index of the audit whose map tiles were asked for last.
+    tiles: Option<(u32, export::map_tiles::SegmentIndex)>,
 }
 
 impl Held {
@@ -407,13 +410,29 @@ pub fn last_audit_id() -> u32 {
     HELD.with(|held| held.borrow().audits.last().map_or(0, |(id, _)| *id))
 }
 
-/// The noded centrelines of a held audit as the map draws them (segment index, class, speed),
-/// GeoJSON text: the worker wraps it in a Blob the map reads by URL, so the page's thread never
-/// parses a district's segments. [`segment_feature`] gives one segment's every property.
-#[wasm_bindgen(js_name = mapStreets)]
-pub fn map_streets(audit_id: u32) -> Result<String, JsValue> {
-    with_held(audit_id, |out| {
-        serde_json::to_string(&export::layers_geojson::map_streets_geojson(out)).map_err(to_js)
+/// The street tile `z/x/y` of a held audit's centrelines as Mapbox Vector Tile bytes
+/// ([`export::map_tiles`]): the page's map asks for each tile it draws, so neither the page nor
+/// the map holds a district's segments. The segment index is built on the first tile asked of
+/// an audit and kept for that audit. [`segment_feature`] gives one segment's every property.
+#[wasm_bindgen(js_name = streetTile)]
+pub fn street_tile(audit_id: u32, z: u32, x: u32, y: u32) -> Result<Vec<u8>, JsValue> {
+    HELD.with(|held| {
+        let mut held = held.borrow_mut();
+        let Held { audits, tiles, .. } = &mut *held;
+        let Some((_, out)) = audits.iter().find(|(id, _)| *id == audit_id) else {
+            return Err(to_js(format!(
+                "audit {audit_id} is no longer held by the worker: run it again"
+            )));
+        };
+        if tiles.as_ref().is_none_or(|(id, _)| *id != audit_id) {
+            *tiles = Some((audit_id, export::map_tiles::SegmentIndex::build(out)));
+        }
+        match tiles {
+            Some((_, index)) => {
+                export::map_tiles::street_tile(out, index, z, x, y).map_err(error_to_js)
+            }
+            None => Err(to_js("no segment index")),
+        }
     })
 }
 

@@ -28,8 +28,6 @@ export interface AuditResult {
   docText: string;
   ms: number;
   bytes?: Uint8Array;
-  /** An audit's centrelines GeoJSON (audits and re-audits). */
-  streets?: Blob;
 }
 
 function base64ToBytes(b64: string): Uint8Array {
@@ -127,7 +125,7 @@ export class Engine {
     if (m.type === 'progress') p.onProgress({ stage: m.stage, done: m.done, total: m.total });
     else if (m.type === 'done') {
       this.pending.delete(m.id);
-      p.resolve({ docText: m.doc, ms: m.ms, bytes: m.bytes, streets: m.streets });
+      p.resolve({ docText: m.doc, ms: m.ms, bytes: m.bytes });
     } else if (m.type === 'failed') {
       this.pending.delete(m.id);
       // A trap inside the core leaves its memory in an unknown state: start a fresh worker.
@@ -181,6 +179,12 @@ export class Engine {
   async segment(auditId: number, segment: number): Promise<Feature | null> {
     const r = await this.send((id) => ({ type: 'segment', id, audit: auditId, segment }), () => {});
     return JSON.parse(r.docText) as Feature | null;
+  }
+
+  /** Street tile z/x/y of the held audit `auditId` as Mapbox Vector Tile bytes. */
+  async tile(auditId: number, z: number, x: number, y: number): Promise<Uint8Array> {
+    const r = await this.send((id) => ({ type: 'tile', id, audit: auditId, z, x, y }), () => {});
+    return r.bytes ?? new Uint8Array(0);
   }
 
   /** Lets the worker drop a held audit the page no longer shows. */

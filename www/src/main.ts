@@ -2,7 +2,7 @@
 
 import { chartImages, drawCharts } from './charts';
 import { $, download, el } from './dom';
-import { Engine, utf8Text, type AuditResult } from './engine';
+import { Engine, utf8Text } from './engine';
 import { catchmentsCsv, saveCatchments, saveHomes, saveHotspots, saveHotspotsCsv, saveRoutes } from './exports';
 import { AuditMap } from './map';
 import { buildView, routesByHome, type View } from './model';
@@ -52,7 +52,12 @@ let running = false;
 let again = false;
 let audits = 0;
 
-const map = new AuditMap($('map'), { onHome: (id) => select('home', id), onCatchment: (id) => select('catchment', id), onNote: (id) => notes.show(id) });
+const map = new AuditMap($('map'), {
+  onHome: (id) => select('home', id),
+  onCatchment: (id) => select('catchment', id),
+  onNote: (id) => notes.show(id),
+  streetTile: (audit, z, x, y) => engine.tile(audit, z, x, y),
+});
 const table = new CatchmentTable($('table'), (id) => select('catchment', id));
 const settings = new Settings($<HTMLFormElement>('settings'), () => schedule());
 const findBox = new FindBox($<HTMLInputElement>('find'), $('find-list'), (f) => found(f));
@@ -64,22 +69,6 @@ findBox.setIndex([]);
 const views = new Map<string, View>();
 const VIEW_CACHE = 4;
 
-/** An audit document as the worker sent it, with its centrelines' object URL for the map. */
-function docOf(r: AuditResult): AuditDoc {
-  const doc = JSON.parse(r.docText) as AuditDoc;
-  if (r.streets) {
-    doc.streets_blob = r.streets;
-    doc.streets_url = URL.createObjectURL(r.streets);
-  }
-  return doc;
-}
-
-/** Lets go of a view's centrelines Blob once no cached view or the one shown uses it. */
-function releaseStreets(gone: View) {
-  const url = gone.doc.streets_url;
-  if (url && view?.doc.streets_url !== url && ![...views.values()].some((x) => x.doc.streets_url === url)) URL.revokeObjectURL(url);
-}
-
 function keep(key: string, v: View) {
   views.delete(key);
   views.set(key, v);
@@ -88,7 +77,6 @@ function keep(key: string, v: View) {
     if (old === undefined) break;
     const gone = views.get(old);
     views.delete(old);
-    if (gone) releaseStreets(gone);
     // The worker holds each view's audit for its routes; this one is no longer shown.
     if (gone && ![...views.values()].some((x) => x.doc.audit_id === gone.doc.audit_id)) engine.release(gone.doc.audit_id);
   }
@@ -111,7 +99,7 @@ const compare = new Compare(map, {
     const have = views.get(key);
     if (have) return have;
     const r = await engine.reaudit(key, () => {});
-    const v = buildView(docOf(r));
+    const v = buildView(JSON.parse(r.docText) as AuditDoc);
     keep(key, v);
     return v;
   },
@@ -288,17 +276,15 @@ async function runAudit(fit: boolean) {
       ($('progress-fill') as HTMLElement).style.width = `${Math.round(((i + share) / order.length) * 100)}%`;
       $('progress-text').textContent = `${p.stage}${p.total > 1 ? ` ${p.done} / ${p.total}` : ''}`;
     });
-    let doc = docOf(res);
-    const before = [...views.values()];
+    let doc = JSON.parse(res.docText) as AuditDoc;
     views.clear();
-    for (const v of before) releaseStreets(v);
     keep('', buildView(doc));
     let coreMs = res.ms;
     const list = interventionsText(scenarios.current());
     if (list) {
       $('progress-text').textContent = `scenario “${scenarios.name()}”`;
       const r2 = await engine.reaudit(list, () => {});
-      doc = docOf(r2);
+      doc = JSON.parse(r2.docText) as AuditDoc;
       coreMs += r2.ms;
     }
     $('plan-out').replaceChildren();
@@ -328,7 +314,7 @@ async function runScenario() {
     if (cached) doc = cached.doc;
     else {
       const r = await engine.reaudit(list, () => {});
-      doc = docOf(r);
+      doc = JSON.parse(r.docText) as AuditDoc;
       coreMs = r.ms;
       const re = doc['reaudit'] as { core_ms?: number; schools_rerouted?: number; schools?: number; full?: boolean } | undefined;
       if (re) {

@@ -1,6 +1,6 @@
 // The map: MapLibre GL JS with a blank style of our own (no tiles: the streets are the map).
 
-import maplibregl, { type GeoJSONSource, type LngLatBoundsLike, type Map as MlMap } from 'maplibre-gl';
+import maplibregl, { type GeoJSONSource, type VectorTileSource, type LngLatBoundsLike, type Map as MlMap } from 'maplibre-gl';
 import {
   CLASS_WIDTH,
   DEVICES,
@@ -36,6 +36,8 @@ export interface MapEvents {
   onHome: (id: string) => void;
   onCatchment: (schoolId: string) => void;
   onNote?: (id: string) => void;
+  /** Street tile z/x/y of a held audit (Mapbox Vector Tile bytes), from the worker. */
+  streetTile: (audit: number, z: number, x: number, y: number) => Promise<Uint8Array>;
 }
 
 /** What a click in an editing mode landed on (scenarios.ts, notes.ts decide what it means). */
@@ -44,6 +46,28 @@ export interface Pick {
   crossing: { id: string; at: [number, number] } | null;
   /** The noded segment (its index in the centrelines) under the click, if any. */
   segment: number | null;
+}
+
+let streetTiles: MapEvents['streetTile'] | null = null;
+
+/** Registers (once) the `cwstreets:` protocol the streets source asks its tiles through: each
+ * goes to the worker that holds the audit. A tile of no audit, or of one the worker no longer
+ * holds (after a cancel), is empty. */
+function registerStreetTiles(get: MapEvents['streetTile']) {
+  const first = streetTiles === null;
+  streetTiles = get;
+  if (!first) return;
+  maplibregl.addProtocol('cwstreets', async (params) => {
+    const m = /^cwstreets:\/\/(\d+)\/(\d+)\/(\d+)\/(\d+)/.exec(params.url);
+    if (!m || m[1] === '0' || !streetTiles) return { data: new ArrayBuffer(0) };
+    try {
+      const bytes = await streetTiles(Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4]));
+      const whole = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength;
+      return { data: whole ? bytes.buffer : bytes.slice().buffer };
+    } catch {
+      return { data: new ArrayBuffer(0) };
+    }
+  });
 }
 
 export class AuditMap {
@@ -55,6 +79,7 @@ export class AuditMap {
 
   constructor(container: HTMLElement, private events: MapEvents) {
     registerGlyphs();
+    registerStreetTiles(events.streetTile);
     this.map = new maplibregl.Map({
       container,
       style: {
@@ -80,7 +105,10 @@ export class AuditMap {
       const { data } = deviceImage(d.key, 40);
       m.addImage(`dev-${d.key}`, data, { pixelRatio: 2 });
     }
-    for (const id of ['catchments', 'streets', 'street-names', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home', 'found', 'edits', 'notes', 'cmp-routes'])
+    // The streets as vector tiles the worker cuts on demand (`cwstreets://audit/z/x/y`), so the
+    // map never holds or tiles a district's segments as GeoJSON; beyond zoom 16 it scales up.
+    m.addSource('streets', { type: 'vector', tiles: ['cwstreets://0/{z}/{x}/{y}'], minzoom: 0, maxzoom: 16 });
+    for (const id of ['catchments', 'street-names', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home', 'found', 'edits', 'notes', 'cmp-routes'])
       m.addSource(id, { type: 'geojson', data: data(empty()) });
     m.addSource('homes', {
       type: 'geojson',
@@ -117,6 +145,7 @@ export class AuditMap {
       id: 'streets-casing',
       type: 'line',
       source: 'streets',
+      'source-layer': 'streets',
       filter: ['!', foot] as maplibregl.FilterSpecification,
       layout: { 'line-cap': 'round', 'line-join': 'round' },
       paint: {
@@ -128,6 +157,7 @@ export class AuditMap {
       id: 'streets',
       type: 'line',
       source: 'streets',
+      'source-layer': 'streets',
       filter: ['!', foot] as maplibregl.FilterSpecification,
       layout: { 'line-cap': 'round', 'line-join': 'round' },
       paint: {
@@ -139,6 +169,7 @@ export class AuditMap {
       id: 'paths',
       type: 'line',
       source: 'streets',
+      'source-layer': 'streets',
       filter: foot as maplibregl.FilterSpecification,
       paint: { 'line-color': PATH_COLOR, 'line-width': 2, 'line-dasharray': [2, 1.5] },
     });
@@ -305,13 +336,7 @@ export class AuditMap {
   async show(view: View, catchmentFile: FeatureCollection | null, fit: boolean) {
     await this.loaded;
     const doc = view.doc;
-    // The centrelines by URL: MapLibre fetches and parses them in its own worker. A page opened
-    // from disk has no origin its map workers may fetch a Blob URL from: there the page parses
-    // them and hands MapLibre the object.
-    const streets = (this.map.getSource('streets') as GeoJSONSource | undefined);
-    if (!doc.streets_blob || !doc.streets_url) streets?.setData(data(empty()));
-    else if (location.protocol !== 'file:') streets?.setData(doc.streets_url);
-    else streets?.setData(data(JSON.parse(await doc.streets_blob.text()) as FeatureCollection));
+    (this.map.getSource('streets') as VectorTileSource | undefined)?.setTiles([`cwstreets://${doc.audit_id}/{z}/{x}/{y}`]);
     this.set('crossings', {
       type: 'FeatureCollection',
       features: doc.layers.crossings.map((c) => ({

@@ -117,11 +117,6 @@ export interface AuditDoc {
   bounds: [number, number, number, number] | null;
   /** The named streets as drawn, with their names: labels and the find box. */
   street_names: FeatureCollection;
-  /** The centrelines GeoJSON as an object URL of the worker's Blob, set by the page: the map
-   * reads it in its own worker, so the page's thread never parses a district's segments. */
-  streets_url?: string;
-  /** The Blob behind `streets_url` (a page opened from disk parses it: see `AuditMap.show`). */
-  streets_blob?: Blob;
   layers: {
     crossings: CrossingPoint[];
     schools: School[];
@@ -153,6 +148,7 @@ export type ToWorker =
   | { type: 'reaudit'; id: number; interventions: string }
   | { type: 'routes'; id: number; audit: number; query: string }
   | { type: 'segment'; id: number; audit: number; segment: number }
+  | { type: 'tile'; id: number; audit: number; z: number; x: number; y: number }
   | { type: 'release'; id: number; audit: number }
   | { type: 'compare'; id: number; before: string; after: string }
   | { type: 'write_project'; id: number; project: string }
@@ -161,5 +157,5 @@ export type ToWorker =
 export type FromWorker =
   | { type: 'ready'; defaultConfig: string; caution: string; ruleSets: Record<string, string>; configBounds?: string }
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
-  | { type: 'done'; id: number; doc: string; ms: number; bytes?: Uint8Array; streets?: Blob }
+  | { type: 'done'; id: number; doc: string; ms: number; bytes?: Uint8Array }
   | { type: 'failed'; id: number; error: string };

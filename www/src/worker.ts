@@ -55,6 +55,14 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
     return;
   }
+  if (msg.type === 'tile') {
+    // One street tile of a held audit for the map (Mapbox Vector Tile bytes), handed over.
+    try {
+      const bytes = core.streetTile(msg.audit, msg.z, msg.x, msg.y);
+      (self as unknown as Worker).postMessage({ type: 'done', id: msg.id, doc: '', ms: 0, bytes } satisfies FromWorker, [bytes.buffer]);
+    } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
+    return;
+  }
   if (msg.type === 'release') {
     core.releaseAudit(msg.audit);
     post({ type: 'done', id: msg.id, doc: '', ms: 0 });
@@ -83,10 +91,7 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
       const doc = msg.type === 'reaudit' ? core.reaudit(msg.interventions, progress) : msg.type === 'plan'
         ? (core as unknown as { plan: (l: string, c: string, b: number, p: typeof progress) => string }).plan(msg.layers, msg.config, msg.budget, progress)
         : core.audit(msg.layers, msg.config, progress);
-      // The centrelines go as a Blob the map reads by URL, not inside the document the page parses.
-      const streets = msg.type === 'plan' ? undefined
-        : new Blob([core.mapStreets(core.lastAuditId())], { type: 'application/geo+json' });
-      post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0, streets });
+      post({ type: 'done', id: msg.id, doc, ms: performance.now() - t0 });
     } catch (e) {
       post({ type: 'failed', id: msg.id, error: String(e) });
     }

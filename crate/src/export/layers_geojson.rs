@@ -243,39 +243,6 @@ pub fn centreline_feature(out: &AuditOutput, i: usize) -> Option<Feature<Segment
     ))
 }
 
-/// What the page's map draws a segment by: its index (a click asks the worker for the rest),
-/// its class and its speed. A third of the full properties' text, and so of what the map's
-/// tiling worker holds for a district.
-#[derive(Debug, Serialize)]
-pub struct MapSegmentProps {
-    pub segment: usize,
-    pub class: &'static str,
-    pub speed_kmh: f64,
-}
-
-/// The noded centrelines as the page's map draws them ([`MapSegmentProps`]).
-pub fn map_streets_geojson(out: &AuditOutput) -> Collection<MapSegmentProps> {
-    let features = out
-        .network
-        .graph
-        .segments
-        .iter()
-        .enumerate()
-        .filter_map(|(i, s)| {
-            let st = out.layers.streets.get(s.street)?;
-            Some(feature(
-                s.line.clone(),
-                MapSegmentProps {
-                    segment: i,
-                    class: st.class.as_str(),
-                    speed_kmh: st.speed_kmh,
-                },
-            ))
-        })
-        .collect();
-    typed_collection(features)
-}
-
 /// The west, south, east and north bounds of the noded centrelines in degrees (`None` for no
 /// segments): what the page fits the map to without holding every segment.
 pub fn centrelines_bounds(out: &AuditOutput) -> Option<[f64; 4]> {

@@ -11,6 +11,7 @@ pub mod geometry;
 pub mod homes_csv;
 pub mod hotspots;
 pub mod layers_geojson;
+pub mod map_tiles;
 pub mod summary;
 
 pub use catchments_csv::{catchments_csv, plan_csv, plan_json};
