@@ -13,6 +13,45 @@ export function csvObjects(text: string): Record<string, string>[] {
   return Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
 }
 
+/** A CSV table held as its text: the header, and where each row's line lies, by the value of
+ * the `key` column; a row is parsed from its own line when asked, so a county's table is not
+ * kept as hundreds of thousands of row objects. `each` sees every row's cells once. */
+export class CsvLines {
+  header: string[] = [];
+  private spans = new Map<string, [number, number]>();
+
+  constructor(private text: string, key: string, each: (cells: string[], col: (name: string) => string) => void) {
+    let at = 0;
+    let keyCol = -1;
+    let index = new Map<string, number>();
+    Papa.parse<string[]>(text, {
+      skipEmptyLines: true,
+      step: (r) => {
+        const start = at;
+        at = r.meta.cursor;
+        const cells = r.data;
+        if (!this.header.length) {
+          this.header = cells;
+          index = new Map(cells.map((h, i) => [h, i]));
+          keyCol = index.get(key) ?? -1;
+          return;
+        }
+        const col = (name: string) => cells[index.get(name) ?? -1] ?? '';
+        if (keyCol >= 0) this.spans.set(cells[keyCol] ?? '', [start, at]);
+        each(cells, col);
+      },
+    });
+  }
+
+  /** The row whose key column is `id`, keyed by the header (empty when there is none). */
+  row(id: string): Record<string, string> {
+    const span = this.spans.get(id);
+    if (!span) return {};
+    const cells = Papa.parse<string[]>(this.text.slice(span[0], span[1]), { skipEmptyLines: true }).data[0] ?? [];
+    return Object.fromEntries(this.header.map((h, i) => [h, cells[i] ?? '']));
+  }
+}
+
 /** Text cells a spreadsheet would read as a formula: the core's rule (export/csv_safe.rs):
  * a lead of = + - @ tab or CR, unless the cell is a plain number such as -3.5. */
 export const FORMULA_CELL = /^(?![+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$)[=+\-@\t\r]/;

@@ -76,6 +76,8 @@ export class AuditMap {
   private schoolMarkers: maplibregl.Marker[] = [];
   /** Set while a scenario or note tool is armed: clicks go to it instead of the selection. */
   onPick: ((p: Pick) => void) | null = null;
+  /** The hotspots shown, in the order of the map's `i` property. */
+  private hotspotList: Feature[] = [];
 
   constructor(container: HTMLElement, private events: MapEvents) {
     registerGlyphs();
@@ -306,7 +308,8 @@ export class AuditMap {
       if (note && this.events.onNote) return this.events.onNote(String(note.properties.id));
       const spot = m.queryRenderedFeatures(e.point, { layers: ['crashes', 'hotspots', 'crossings', 'qa'] })[0];
       if (spot) {
-        new maplibregl.Popup({ closeButton: true, maxWidth: '260px' }).setLngLat(e.lngLat).setDOMContent(popupContent(spot.layer.id, spot.properties)).addTo(m);
+        const props = spot.layer.id === 'hotspots' ? this.hotspotList[Number(spot.properties.i)]?.properties ?? {} : spot.properties;
+        new maplibregl.Popup({ closeButton: true, maxWidth: '260px' }).setLngLat(e.lngLat).setDOMContent(popupContent(spot.layer.id, props)).addTo(m);
       }
       const hit = m.queryRenderedFeatures(e.point, { layers: ['homes-pt', 'homes-cluster', 'catchments-fill'] });
       const home = hit.find((f) => f.layer.id === 'homes-pt');
@@ -356,12 +359,15 @@ export class AuditMap {
     this.set('qa', doc.qa);
     this.set('crashes', crashFeatures(doc));
     const maxHot = view.hotspots.reduce((m, f) => Math.max(m, Number(f.properties['product'] ?? 0)), 1e-9);
+    // The map holds each hotspot's place, size and index only; a popup reads the rest from the
+    // view (a district's 34 000 hotspots with every property cost the map's worker 290 MB).
+    this.hotspotList = view.hotspots;
     this.set('hotspots', {
       type: 'FeatureCollection',
-      features: view.hotspots.map((f) => ({
-        ...f,
+      features: view.hotspots.map((f, i) => ({
+        type: 'Feature',
         geometry: pointOf(f),
-        properties: { ...f.properties, weight: Number(f.properties['product'] ?? 0) / maxHot },
+        properties: { i, weight: Number(f.properties['product'] ?? 0) / maxHot },
       })),
     });
     this.setCatchments(view, catchmentFile, null);

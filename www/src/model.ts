@@ -2,7 +2,7 @@
 // Figures come from the core; the page only groups them for display. Route lines stay in the
 // worker: the page asks for one home's or one catchment's when it draws them (`Engine.routes`).
 
-import { csvObjects } from './csv';
+import { CsvLines } from './csv';
 import type { AuditDoc, Feature, FeatureCollection, LonLat, RouteProps } from './types';
 
 /** A home's three routes as the worker draws them (null where the home has none). */
@@ -38,8 +38,9 @@ export interface HomeView {
   routed: boolean;
   status: HomeStatus;
   reasons: string[];
-  /** The home's row of the core's homes.csv (score columns: active minutes, waits, ...). */
-  row: Record<string, string>;
+  /** The home's row of the core's homes.csv (score columns: active minutes, waits, ...),
+   * parsed from its line when asked. */
+  readonly row: Record<string, string>;
 }
 
 export interface CatchmentView {
@@ -90,9 +91,15 @@ function coreVerdict(r: Record<string, string>): { status: HomeStatus; reasons: 
 
 export function buildView(doc: AuditDoc): View {
   const walkZoneM = doc.summary.walk_zone_m;
-  const rows = new Map(homesCsvRows(doc).map((r) => [r['home_id'], r]));
+  // The figures each home's view needs, read once; the rows stay as the CSV's text.
+  const needed = ['shortest_network_m', 'recommended_network_m', 'in_walk_zone', 'walk_zone_m', 'safe_route', 'hazardous',
+    'hazard_reason', 'unsafe_reason', 'over_detour_cap', 'school_id'];
+  const figures = new Map<string, Record<string, string>>();
+  const lines = new CsvLines(doc.homes_csv, 'home_id', (_, col) => {
+    figures.set(col('home_id'), Object.fromEntries(needed.map((k) => [k, col(k)])));
+  });
   const homes: HomeView[] = doc.layers.homes.map((h, idx) => {
-    const row = rows.get(h.id) ?? {};
+    const row = figures.get(h.id) ?? {};
     const shortestM = num(row['shortest_network_m']);
     const routed = shortestM !== null && num(row['recommended_network_m']) !== null;
     let status: HomeStatus;
@@ -119,11 +126,21 @@ export function buildView(doc: AuditDoc): View {
       routed,
       status,
       reasons,
-      row,
+      get row() {
+        return lines.row(h.id);
+      },
     };
   });
   const byId = new Map(homes.map((h) => [h.id, h]));
-  const catchments = doc.summary.schools.map((s) => catchmentRow(s.id, s.name, homes, doc, walkZoneM));
+  // Homes grouped by school once: a county has thousands of schools and their homes.
+  const bySchool = new Map<string, HomeView[]>();
+  for (const h of homes) {
+    if (!h.schoolId) continue;
+    const list = bySchool.get(h.schoolId);
+    if (list) list.push(h);
+    else bySchool.set(h.schoolId, [h]);
+  }
+  const catchments = doc.summary.schools.map((s) => catchmentRow(s.id, s.name, bySchool.get(s.id) ?? [], doc, walkZoneM));
   const hot = doc['hotspots'] as FeatureCollection | undefined;
   return {
     doc,
@@ -135,8 +152,7 @@ export function buildView(doc: AuditDoc): View {
   };
 }
 
-function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: AuditDoc, walkZoneM: number): CatchmentView {
-  const members = homes.filter((h) => h.schoolId === schoolId);
+function catchmentRow(schoolId: string, name: string, members: HomeView[], doc: AuditDoc, walkZoneM: number): CatchmentView {
   const children = members.reduce((a, h) => a + h.children, 0);
   const routed = members.filter((h) => h.routed);
   const inZone = members.filter((h) => h.shortestM !== null && h.shortestM <= walkZoneM);
@@ -184,9 +200,4 @@ function catchmentRow(schoolId: string, name: string, homes: HomeView[], doc: Au
     hazardous: null,
     quadrant: null,
   };
-}
-
-/** The homes.csv rows keyed by home id (for the parity of exports and a home's panel). */
-export function homesCsvRows(doc: AuditDoc): Record<string, string>[] {
-  return csvObjects(doc.homes_csv);
 }
