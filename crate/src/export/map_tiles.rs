@@ -7,7 +7,7 @@
 //! what a click needs: `segment` (its index: the worker gives the rest), `class`, `speed_kmh`.
 
 use crate::error::Error;
-use crate::input::LonLat;
+use crate::input::{LonLat, RoadClass};
 use crate::pipeline::AuditOutput;
 use mvt::{GeomEncoder, GeomType, Tile};
 use rstar::primitives::{GeomWithData, Rectangle};
@@ -20,6 +20,10 @@ pub const EXTENT: u32 = 4096;
 const BUFFER: f64 = 64.0;
 /// The deepest zoom cut; the map scales this level's tiles up beyond it.
 pub const MAX_ZOOM: u32 = 16;
+/// The zoom from which local and service streets and foot paths are in the tiles: below it
+/// (a whole district in view, a block under two pixels long) only arterials and collectors are,
+/// as general-purpose web maps draw minor streets from about zoom 12 (common practice).
+pub const MINOR_FROM_ZOOM: u32 = 12;
 /// The name of the tiles' one layer (the map's style reads it as `source-layer`).
 pub const LAYER: &str = "streets";
 
@@ -197,6 +201,11 @@ pub fn street_tile(
         let Some(street) = out.layers.streets.get(seg.street) else {
             continue;
         };
+        if z < MINOR_FROM_ZOOM
+            && !matches!(street.class, RoadClass::Arterial | RoadClass::Collector)
+        {
+            continue;
+        }
         let points: Vec<(f64, f64)> = seg
             .line
             .iter()
