@@ -99,21 +99,7 @@ mod tests {
     /// The table agrees with the per-edge functions it replaces, on the demo town.
     #[test]
     fn table_matches_per_edge_functions_on_the_demo_town() {
-        let demo = |f: &str| {
-            std::fs::read_to_string(format!("../sample-maps/demo-town/{f}")).unwrap_or_default()
-        };
-        let raw = crate::input::RawLayers {
-            streets: demo("streets.geojson"),
-            crossings: Some(demo("crossings.geojson")),
-            schools: demo("schools.geojson"),
-            homes: demo("homes.geojson"),
-            homes_format: crate::input::HomesFormat::GeoJson,
-            catchments: None,
-            preset: crate::input::Preset::Plain,
-            mapping: None,
-            ..Default::default()
-        };
-        let (layers, _) = crate::input::read_layers(&raw).expect("demo town reads");
+        let layers = crate::input::demo_town_layers();
         let config = Config::default();
         let net = crate::network::build_network(&layers, &config.network);
         let t = EdgeTable::build(&net.graph, &layers.streets, &config);

@@ -75,10 +75,9 @@ fn audit_on_threads(raw: &RawLayers, threads: usize) -> AuditOutput {
     }
 }
 
-#[test]
-fn one_thread_and_several_give_identical_output() {
-    // A synthetic city with elementary and secondary schools (both safe-route cost tables),
-    // more schools than one routing batch.
+/// The synthetic city of 4 000 segments, 1 500 homes and 20 schools (elementary and secondary:
+/// both safe-route cost tables; more schools than one routing batch).
+fn synthetic_layers() -> RawLayers {
     let city = synthetic_city::city(4_000, 1_500, 20);
     let file = |n: &str| {
         city.files
@@ -87,14 +86,21 @@ fn one_thread_and_several_give_identical_output() {
             .map(|(_, t)| t.clone())
             .unwrap_or_default()
     };
-    let raw = RawLayers {
+    RawLayers {
         streets: file("streets.geojson"),
         crossings: Some(file("crossings.geojson")),
         schools: file("schools.geojson"),
         homes: file("homes.csv"),
         homes_format: HomesFormat::Csv,
         ..RawLayers::default()
-    };
+    }
+}
+
+#[test]
+fn one_thread_and_several_give_identical_output() {
+    // A synthetic city with elementary and secondary schools (both safe-route cost tables),
+    // more schools than one routing batch.
+    let raw = synthetic_layers();
     let one = audit_on_threads(&raw, 1);
     let four = audit_on_threads(&raw, 4);
     assert!(one.homes.iter().filter(|h| h.shortest.is_some()).count() > 1_000);
@@ -131,22 +137,7 @@ fn flows_count_each_routed_child_on_every_edge_of_its_route() {
 #[test]
 fn flows_file_lists_every_walked_edge_once_in_edge_order() {
     // Enough walked edges for several of the blocks the file is written in (2 048 each).
-    let city = synthetic_city::city(4_000, 1_500, 20);
-    let file = |n: &str| {
-        city.files
-            .iter()
-            .find(|(name, _)| *name == n)
-            .map(|(_, t)| t.clone())
-            .unwrap_or_default()
-    };
-    let raw = RawLayers {
-        streets: file("streets.geojson"),
-        crossings: Some(file("crossings.geojson")),
-        schools: file("schools.geojson"),
-        homes: file("homes.csv"),
-        homes_format: HomesFormat::Csv,
-        ..RawLayers::default()
-    };
+    let raw = synthetic_layers();
     let out = audit_on_threads(&raw, 2);
     let flows = catchwalk::export::flows::edge_flows(&out);
     let mut text = Vec::new();

@@ -153,17 +153,7 @@ mod tests {
     /// apart, centred on its segment's middle and square to the street there.
     #[test]
     fn doorstep_crossings_are_drawn_across_the_street() {
-        let demo = |f: &str| {
-            std::fs::read_to_string(format!("../sample-maps/demo-town/{f}")).unwrap_or_default()
-        };
-        let raw = crate::input::RawLayers {
-            streets: demo("streets.geojson"),
-            schools: demo("schools.geojson"),
-            homes: demo("homes.geojson"),
-            homes_format: crate::input::HomesFormat::GeoJson,
-            ..Default::default()
-        };
-        let (layers, _) = crate::input::read_layers(&raw).expect("demo town reads");
+        let layers = crate::input::demo_town_layers();
         let config = crate::config::Config::default();
         let g = crate::network::build_network(&layers, &config.network).graph;
         let mut seen = 0;

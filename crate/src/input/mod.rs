@@ -67,6 +67,24 @@ pub struct RawLayers {
     pub per_layer: per_layer::PerLayer,
 }
 
+/// The demo town's streets, crossings, schools and homes as read, for the unit tests that
+/// check a table or a drawing against the live functions on real-looking data.
+#[cfg(test)]
+pub(crate) fn demo_town_layers() -> Layers {
+    let demo = |f: &str| {
+        std::fs::read_to_string(format!("../sample-maps/demo-town/{f}")).unwrap_or_default()
+    };
+    let raw = RawLayers {
+        streets: demo("streets.geojson"),
+        crossings: Some(demo("crossings.geojson")),
+        schools: demo("schools.geojson"),
+        homes: demo("homes.geojson"),
+        homes_format: HomesFormat::GeoJson,
+        ..Default::default()
+    };
+    read_layers(&raw).expect("demo town reads").0
+}
+
 /// Parses and validates every layer. Warnings do not stop the audit; errors do.
 /// Each layer's property names: the layer's choice in `per_layer.names`, else plain names
 /// through the mapping file's fields when it names the layer, else OpenStreetMap tags for an

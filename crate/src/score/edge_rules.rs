@@ -215,18 +215,7 @@ mod tests {
     /// checks (pa-447 asks for site checks where the data lacks a fact) and the default set.
     #[test]
     fn table_matches_the_live_lookups_on_the_demo_town() {
-        let demo = |f: &str| {
-            std::fs::read_to_string(format!("../sample-maps/demo-town/{f}")).unwrap_or_default()
-        };
-        let raw = crate::input::RawLayers {
-            streets: demo("streets.geojson"),
-            crossings: Some(demo("crossings.geojson")),
-            schools: demo("schools.geojson"),
-            homes: demo("homes.geojson"),
-            homes_format: crate::input::HomesFormat::GeoJson,
-            ..Default::default()
-        };
-        let (layers, _) = crate::input::read_layers(&raw).expect("demo town reads");
+        let layers = crate::input::demo_town_layers();
         for set in ["default", "pa-447"] {
             let mut config = Config::default();
             config.score.rules = RuleSet::builtin(set).expect("shipped set");
