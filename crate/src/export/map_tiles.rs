@@ -21,8 +21,9 @@ const BUFFER: f64 = 64.0;
 /// The deepest zoom cut; the map scales this level's tiles up beyond it.
 pub const MAX_ZOOM: u32 = 16;
 /// The zoom from which local and service streets and foot paths are in the tiles: below it
-/// (a whole district in view, a block under two pixels long) only arterials and collectors are,
-/// as general-purpose web maps draw minor streets from about zoom 12 (common practice).
+/// (a whole district in view, an 80 m block about 5 pixels long) only arterials and
+/// collectors are, as general-purpose web maps draw minor streets from about zoom 12 (common
+/// practice).
 pub const MINOR_FROM_ZOOM: u32 = 12;
 /// The name of the tiles' one layer (the map's style reads it as `source-layer`).
 pub const LAYER: &str = "streets";
