@@ -57,6 +57,10 @@ const map = new AuditMap($('map'), {
   onCatchment: (id) => select('catchment', id),
   onNote: (id) => notes.show(id),
   streetTile: (audit, z, x, y) => engine.tile(audit, z, x, y),
+  // After a cancel the fresh worker holds no audit: the streets not drawn yet need it again.
+  onTileFailed: (why) => {
+    if (/no longer held/.test(why) && !running) setStatus('Some streets cannot be drawn: the audit shown is no longer held by the worker (after a cancel). Press “Run audit” to draw them.');
+  },
 });
 const table = new CatchmentTable($('table'), (id) => select('catchment', id));
 const settings = new Settings($<HTMLFormElement>('settings'), () => schedule());

@@ -38,6 +38,8 @@ export interface MapEvents {
   onNote?: (id: string) => void;
   /** Street tile z/x/y of a held audit (Mapbox Vector Tile bytes), from the worker. */
   streetTile: (audit: number, z: number, x: number, y: number) => Promise<Uint8Array>;
+  /** A street tile could not be had (the worker was restarted and holds the audit no more). */
+  onTileFailed?: (why: string) => void;
 }
 
 /** What a click in an editing mode landed on (scenarios.ts, notes.ts decide what it means). */
@@ -49,13 +51,15 @@ export interface Pick {
 }
 
 let streetTiles: MapEvents['streetTile'] | null = null;
+let tileFailed: MapEvents['onTileFailed'] | null = null;
 
 /** Registers (once) the `cwstreets:` protocol the streets source asks its tiles through: each
  * goes to the worker that holds the audit. A tile of no audit, or of one the worker no longer
  * holds (after a cancel), is empty. */
-function registerStreetTiles(get: MapEvents['streetTile']) {
+function registerStreetTiles(get: MapEvents['streetTile'], failed: MapEvents['onTileFailed']) {
   const first = streetTiles === null;
   streetTiles = get;
+  tileFailed = failed;
   if (!first) return;
   maplibregl.addProtocol('cwstreets', async (params) => {
     const m = /^cwstreets:\/\/(\d+)\/(\d+)\/(\d+)\/(\d+)/.exec(params.url);
@@ -64,7 +68,8 @@ function registerStreetTiles(get: MapEvents['streetTile']) {
       const bytes = await streetTiles(Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4]));
       const whole = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength;
       return { data: whole ? bytes.buffer : bytes.slice().buffer };
-    } catch {
+    } catch (e) {
+      tileFailed?.((e as Error).message);
       return { data: new ArrayBuffer(0) };
     }
   });
@@ -81,7 +86,7 @@ export class AuditMap {
 
   constructor(container: HTMLElement, private events: MapEvents) {
     registerGlyphs();
-    registerStreetTiles(events.streetTile);
+    registerStreetTiles(events.streetTile, events.onTileFailed);
     this.map = new maplibregl.Map({
       container,
       style: {
