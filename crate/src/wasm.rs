@@ -360,11 +360,7 @@ pub fn route_lines(audit_id: u32, query_json: &str) -> Result<String, JsValue> {
     };
     HELD.with(|held| {
         let held = held.borrow();
-        let Some((_, out)) = held.audits.iter().find(|(id, _)| *id == audit_id) else {
-            return Err(to_js(format!(
-                "audit {audit_id} is no longer held by the worker: run it again to draw its routes"
-            )));
-        };
+        let out = held_audit(&held.audits, audit_id, " to draw its routes")?;
         let school = match &q.school {
             Some(id) => Some(
                 out.layers
@@ -392,22 +388,25 @@ fn with_held<T>(
     audit_id: u32,
     f: impl FnOnce(&AuditOutput) -> Result<T, JsValue>,
 ) -> Result<T, JsValue> {
-    HELD.with(|held| {
-        let held = held.borrow();
-        match held.audits.iter().find(|(id, _)| *id == audit_id) {
-            Some((_, out)) => f(out),
-            None => Err(to_js(format!(
-                "audit {audit_id} is no longer held by the worker: run it again"
-            ))),
-        }
-    })
+    HELD.with(|held| f(held_audit(&held.borrow().audits, audit_id, "")?))
 }
 
-/// The id of the audit the worker took last (0 before any): the worker asks for its
-/// centrelines right after [`audit`] or [`reaudit`].
-#[wasm_bindgen(js_name = lastAuditId)]
-pub fn last_audit_id() -> u32 {
-    HELD.with(|held| held.borrow().audits.last().map_or(0, |(id, _)| *id))
+/// The audit `audit_id` among the held `audits`, or the message that it is held no more
+/// (`then`: what running it again would be for, after a space; empty for nothing).
+fn held_audit<'a>(
+    audits: &'a [(u32, AuditOutput)],
+    audit_id: u32,
+    then: &str,
+) -> Result<&'a AuditOutput, JsValue> {
+    audits
+        .iter()
+        .find(|(id, _)| *id == audit_id)
+        .map(|(_, out)| out)
+        .ok_or_else(|| {
+            to_js(format!(
+                "audit {audit_id} is no longer held by the worker: run it again{then}"
+            ))
+        })
 }
 
 /// The street tile `z/x/y` of a held audit's centrelines as Mapbox Vector Tile bytes
@@ -419,20 +418,13 @@ pub fn street_tile(audit_id: u32, z: u32, x: u32, y: u32) -> Result<Vec<u8>, JsV
     HELD.with(|held| {
         let mut held = held.borrow_mut();
         let Held { audits, tiles, .. } = &mut *held;
-        let Some((_, out)) = audits.iter().find(|(id, _)| *id == audit_id) else {
-            return Err(to_js(format!(
-                "audit {audit_id} is no longer held by the worker: run it again"
-            )));
-        };
-        if tiles.as_ref().is_none_or(|(id, _)| *id != audit_id) {
-            *tiles = Some((audit_id, export::map_tiles::SegmentIndex::build(out)));
+        let out = held_audit(audits, audit_id, "")?;
+        if tiles.as_ref().is_some_and(|(id, _)| *id != audit_id) {
+            *tiles = None;
         }
-        match tiles {
-            Some((_, index)) => {
-                export::map_tiles::street_tile(out, index, z, x, y).map_err(error_to_js)
-            }
-            None => Err(to_js("no segment index")),
-        }
+        let (_, index) =
+            tiles.get_or_insert_with(|| (audit_id, export::map_tiles::SegmentIndex::build(out)));
+        export::map_tiles::street_tile(out, index, z, x, y).map_err(error_to_js)
     })
 }
 

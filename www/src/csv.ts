@@ -7,12 +7,6 @@ export function parseCsv(text: string): string[][] {
   return Papa.parse<string[]>(text, { skipEmptyLines: true }).data;
 }
 
-/** Rows as objects keyed by the header (the header is the first row: the core writes no
- * line before it). */
-export function csvObjects(text: string): Record<string, string>[] {
-  return Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true }).data;
-}
-
 /** A CSV table held as its text: the header, and where each row's line lies, by the value of
  * the `key` column; a row is parsed from its own line when asked, so a county's table is not
  * kept as hundreds of thousands of row objects. `each` sees every row's cells once. */
@@ -22,7 +16,6 @@ export class CsvLines {
 
   constructor(private text: string, key: string, each: (cells: string[], col: (name: string) => string) => void) {
     let at = 0;
-    let keyCol = -1;
     let index = new Map<string, number>();
     Papa.parse<string[]>(text, {
       skipEmptyLines: true,
@@ -33,11 +26,10 @@ export class CsvLines {
         if (!this.header.length) {
           this.header = cells;
           index = new Map(cells.map((h, i) => [h, i]));
-          keyCol = index.get(key) ?? -1;
           return;
         }
         const col = (name: string) => cells[index.get(name) ?? -1] ?? '';
-        if (keyCol >= 0) this.spans.set(cells[keyCol] ?? '', [start, at]);
+        if (index.has(key)) this.spans.set(col(key), [start, at]);
         each(cells, col);
       },
     });

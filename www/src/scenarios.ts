@@ -203,7 +203,7 @@ export class Scenarios {
 
   private async pick(p: Pick) {
     const k = this.kind();
-    const seg = p.segment === null || !this.ev.view() ? null : await this.ev.segment(p.segment);
+    const seg = p.segment === null ? null : await this.ev.segment(p.segment);
     if (k.on === 'path') {
       const snap = seg ? snapToLine(seg, p.at) : null;
       this.path.push(snap && snap.vertexM <= PATH_SNAP_M ? snap.vertex : p.at);

@@ -145,6 +145,18 @@ pub fn route_line(graph: &PedGraph, steps: &[RouteStep]) -> Vec<LonLat> {
     out
 }
 
+/// The south-west and north-east corners of a line's finite points (`None` for none).
+pub(crate) fn line_bounds(line: &[LonLat]) -> Option<([f64; 2], [f64; 2])> {
+    let mut pts = line.iter().filter(|p| p[0].is_finite() && p[1].is_finite());
+    let first = *pts.next()?;
+    Some(pts.fold((first, first), |(lo, hi), p| {
+        (
+            [lo[0].min(p[0]), lo[1].min(p[1])],
+            [hi[0].max(p[0]), hi[1].max(p[1])],
+        )
+    }))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -246,24 +246,20 @@ pub fn centreline_feature(out: &AuditOutput, i: usize) -> Option<Feature<Segment
 /// The west, south, east and north bounds of the noded centrelines in degrees (`None` for no
 /// segments): what the page fits the map to without holding every segment.
 pub fn centrelines_bounds(out: &AuditOutput) -> Option<[f64; 4]> {
-    let mut points = out
-        .network
+    out.network
         .graph
         .segments
         .iter()
-        .flat_map(|s| s.line.iter())
-        .filter(|p| p[0].is_finite() && p[1].is_finite());
-    let first = points.next()?;
-    Some(
-        points.fold([first[0], first[1], first[0], first[1]], |b, p| {
+        .filter_map(|s| super::geometry::line_bounds(&s.line))
+        .map(|(lo, hi)| [lo[0], lo[1], hi[0], hi[1]])
+        .reduce(|b, c| {
             [
-                b[0].min(p[0]),
-                b[1].min(p[1]),
-                b[2].max(p[0]),
-                b[3].max(p[1]),
+                b[0].min(c[0]),
+                b[1].min(c[1]),
+                b[2].max(c[2]),
+                b[3].max(c[3]),
             ]
-        }),
-    )
+        })
 }
 
 /// A street's name, to label it on the map and find it by.

@@ -43,7 +43,7 @@ impl SegmentIndex {
             .iter()
             .enumerate()
             .filter_map(|(i, s)| {
-                let (lo, hi) = line_box(&s.line)?;
+                let (lo, hi) = super::geometry::line_bounds(&s.line)?;
                 Some(GeomWithData::new(Rectangle::from_corners(lo, hi), i as u32))
             })
             .collect();
@@ -51,17 +51,6 @@ impl SegmentIndex {
             tree: RTree::bulk_load(boxes),
         }
     }
-}
-
-fn line_box(line: &[LonLat]) -> Option<([f64; 2], [f64; 2])> {
-    let mut pts = line.iter().filter(|p| p[0].is_finite() && p[1].is_finite());
-    let first = *pts.next()?;
-    Some(pts.fold((first, first), |(lo, hi), p| {
-        (
-            [lo[0].min(p[0]), lo[1].min(p[1])],
-            [hi[0].max(p[0]), hi[1].max(p[1])],
-        )
-    }))
 }
 
 /// Web Mercator's latitude limit (where the projected world is square).
