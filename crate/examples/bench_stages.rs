@@ -90,10 +90,10 @@ fn main() -> std::process::ExitCode {
         bytes += export::hotspots_csv(&out).len()
     });
     time("export hotspots.geojson", &mut || {
-        let _ = serde_json::to_writer_pretty(sink(), &export::hotspots_geojson(&out));
+        let _ = export::write_hotspots_geojson(&out, &mut sink());
     });
     time("export centrelines.geojson", &mut || {
-        let _ = serde_json::to_writer_pretty(sink(), &export::centrelines_geojson(&out));
+        let _ = export::write_centrelines_geojson(&out, &mut sink());
     });
     time("export qa.geojson", &mut || {
         let _ = serde_json::to_writer_pretty(sink(), &export::qa_geojson(&out.network.qa));

@@ -45,33 +45,35 @@ impl EdgeTable {
     /// assert_eq!(t.walk_cost, vec![10.0, 5.0]);
     /// ```
     pub fn build(graph: &PedGraph, streets: &[Street], config: &Config) -> Self {
-        let n = graph.edges.len();
+        // Each edge's facts read that edge alone: on every core natively, in edge order.
+        let risk_points = crate::cores::map(&graph.edges, |e| {
+            edge_risk_points(graph, e, streets, &config.risk)
+        });
         let mut t = EdgeTable {
-            risk_points: Vec::with_capacity(n),
-            walk_cost: Vec::with_capacity(n),
-            rec_cost: Vec::with_capacity(n),
-            ..Default::default()
-        };
-        for e in &graph.edges {
-            let risk = edge_risk_points(graph, e, streets, &config.risk);
-            t.risk_points.push(risk);
-            t.walk_cost.push(quantize_cost(e.length_m));
-            t.rec_cost.push(quantize_cost(
-                e.length_m + config.route.metres_per_risk_point * risk,
-            ));
-        }
-        for students in [Students::Elementary, Students::Secondary] {
-            let k = pupil_index(students);
-            t.flagged[k] = graph
+            walk_cost: graph
                 .edges
                 .iter()
-                .map(|e| {
-                    config
-                        .score
-                        .rules
-                        .flags_edge(graph, e, streets, &config.risk, students)
+                .map(|e| quantize_cost(e.length_m))
+                .collect(),
+            rec_cost: graph
+                .edges
+                .iter()
+                .zip(&risk_points)
+                .map(|(e, &risk)| {
+                    quantize_cost(e.length_m + config.route.metres_per_risk_point * risk)
                 })
-                .collect();
+                .collect(),
+            risk_points,
+            ..Default::default()
+        };
+        for students in [Students::Elementary, Students::Secondary] {
+            let k = pupil_index(students);
+            t.flagged[k] = crate::cores::map(&graph.edges, |e| {
+                config
+                    .score
+                    .rules
+                    .flags_edge(graph, e, streets, &config.risk, students)
+            });
             t.safe_cost[k] = t.flagged[k]
                 .iter()
                 .zip(&t.walk_cost)

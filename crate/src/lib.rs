@@ -12,6 +12,7 @@ pub mod audit;
 pub mod benefit;
 pub mod compare;
 pub mod config;
+pub mod cores;
 pub mod error;
 pub mod export;
 pub mod facts;

@@ -108,6 +108,9 @@ fn one_thread_and_several_give_identical_output() {
     assert_eq!(one.homes, four.homes);
     assert_eq!(homes_csv(&one), homes_csv(&four));
     assert_eq!(summary_figures(&one), summary_figures(&four));
+    let hot = catchwalk::export::hotspots_csv;
+    assert!(one.scores.hotspots.len() > 2048);
+    assert_eq!(hot(&one), hot(&four));
 }
 
 #[test]
@@ -168,4 +171,60 @@ fn flows_file_lists_every_walked_edge_once_in_edge_order() {
     assert!(features.iter().all(|f| f["geometry"]["coordinates"]
         .as_array()
         .is_some_and(|c| c.len() >= 2)));
+}
+
+#[test]
+fn streamed_layers_are_their_collections_one_feature_per_line() {
+    // The files are written in blocks on every core; as JSON they are the collections built
+    // whole (the form the page and `routes_geojson_of` use), feature for feature.
+    use catchwalk::export::{
+        centrelines_geojson, hotspots_geojson, routes_geojson, write_centrelines_geojson,
+        write_hotspots_geojson, write_routes_geojson,
+    };
+    let raw = synthetic_layers();
+    let out = audit_on_threads(&raw, 2);
+    type Writer = fn(&AuditOutput, &mut dyn std::io::Write) -> std::io::Result<()>;
+    let written = |f: Writer| {
+        let mut text = Vec::new();
+        if let Err(e) = f(&out, &mut text) {
+            panic!("writing: {e}");
+        }
+        let text = String::from_utf8(text).unwrap_or_default();
+        let value: serde_json::Value = match serde_json::from_str(&text) {
+            Ok(v) => v,
+            Err(e) => panic!("not JSON: {e}"),
+        };
+        let n = value["features"].as_array().map_or(0, Vec::len);
+        // The opening line, one line per feature, the closing line.
+        assert_eq!(text.lines().count(), n + 2);
+        (value, n)
+    };
+    // Both read back by the same parser (serde_json's reading of a float may differ from the
+    // value written by one unit in the last place).
+    let whole = |text: serde_json::Result<String>| -> serde_json::Value {
+        serde_json::from_str(&text.unwrap_or_default()).unwrap_or_default()
+    };
+    let first_difference = |a: &serde_json::Value, b: &serde_json::Value| {
+        let (fa, fb) = (a["features"].as_array(), b["features"].as_array());
+        fa.zip(fb)
+            .and_then(|(x, y)| x.iter().zip(y).find(|(p, q)| p != q))
+            .map(|(p, q)| format!("{p}\n{q}"))
+    };
+    let (routes, n_routes) = written(write_routes_geojson);
+    let r2 = whole(serde_json::to_string(&routes_geojson(&out)));
+    assert_eq!(first_difference(&routes, &r2), None);
+    assert_eq!(routes, r2);
+    let (centrelines, n_segments) = written(write_centrelines_geojson);
+    let c2 = whole(serde_json::to_string(&centrelines_geojson(&out)));
+    assert_eq!(first_difference(&centrelines, &c2), None);
+    assert_eq!(centrelines, c2);
+    let (hotspots, n_hotspots) = written(write_hotspots_geojson);
+    let h2 = whole(serde_json::to_string(&hotspots_geojson(&out)));
+    assert_eq!(first_difference(&hotspots, &h2), None);
+    assert_eq!(hotspots, h2);
+    // Several blocks of 2 048 each.
+    assert!(n_routes > 2 * 2048, "{n_routes} routes");
+    assert!(n_segments > 2048, "{n_segments} segments");
+    assert!(n_hotspots > 2048, "{n_hotspots} hotspots");
+    assert_eq!(routes["caution"], catchwalk::CAUTION);
 }

@@ -8,6 +8,11 @@
 use std::fs;
 use std::io::Write;
 use std::path::{Path, PathBuf};
+use std::sync::Mutex;
+use std::thread::JoinHandle;
+
+/// A file written and being flushed to the disk by a thread of its own.
+type Syncing = (PathBuf, JoinHandle<std::io::Result<()>>);
 
 /// An output folder being written: files go into `staging`, [`OutputDir::commit`] swaps it in.
 #[derive(Debug)]
@@ -15,6 +20,9 @@ pub struct OutputDir {
     target: PathBuf,
     staging: PathBuf,
     committed: bool,
+    /// Each written file's `fsync`, waited for before the swap: the wait for the disk happens
+    /// while the next files are built, not on the cores' time.
+    syncing: Mutex<Vec<Syncing>>,
 }
 
 fn io_err(what: &str, p: &Path, e: std::io::Error) -> String {
@@ -95,6 +103,7 @@ impl OutputDir {
             target: target.to_path_buf(),
             staging,
             committed: false,
+            syncing: Mutex::new(Vec::new()),
         })
     }
 
@@ -123,13 +132,41 @@ impl OutputDir {
         let mut w = std::io::BufWriter::new(f);
         body(&mut w)
             .and_then(|_| w.flush())
-            .and_then(|_| w.get_ref().sync_all())
-            .map_err(|e| io_err("write", &p, e))
+            .map_err(|e| io_err("write", &p, e))?;
+        let f = w
+            .into_inner()
+            .map_err(|e| io_err("write", &p, e.into_error()))?;
+        let sync = std::thread::spawn(move || f.sync_all());
+        self.syncing
+            .lock()
+            .map_err(|_| format!("writing {}: a writer thread failed", p.display()))?
+            .push((p, sync));
+        Ok(())
+    }
+
+    /// Waits until every file written is on the disk (the first failure is the error).
+    fn wait_for_disk(&self) -> Result<(), String> {
+        let pending = match self.syncing.lock() {
+            Ok(mut v) => std::mem::take(&mut *v),
+            Err(_) => return Err("writing the outputs: a writer thread failed".into()),
+        };
+        let mut first_error = None;
+        for (p, sync) in pending {
+            let outcome = match sync.join() {
+                Ok(r) => r.map_err(|e| io_err("write", &p, e)),
+                Err(_) => Err(format!("writing {}: its disk flush failed", p.display())),
+            };
+            if let Err(e) = outcome {
+                first_error.get_or_insert(e);
+            }
+        }
+        first_error.map_or(Ok(()), Err)
     }
 
     /// Swaps the new folder in: the old one (if any) is renamed aside, the new one takes its
     /// name, the old one is removed. If the second rename fails the old one is put back.
     pub fn commit(mut self) -> Result<(), String> {
+        self.wait_for_disk()?;
         let old = if fs::symlink_metadata(&self.target).is_ok() {
             let aside = sibling(&self.target, "old")?;
             fs::rename(&self.target, &aside).map_err(|e| io_err("move aside", &self.target, e))?;
@@ -155,6 +192,7 @@ impl Drop for OutputDir {
     /// A run that ends without [`OutputDir::commit`] removes its half-written folder.
     fn drop(&mut self) {
         if !self.committed {
+            let _ = self.wait_for_disk();
             let _ = fs::remove_dir_all(&self.staging);
         }
     }

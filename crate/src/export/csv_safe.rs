@@ -119,13 +119,7 @@ where
     write_row(&mut w, header);
     let mut text = w.into_inner().unwrap_or_default();
     let blocks = n.div_ceil(BLOCK);
-    #[cfg(not(target_arch = "wasm32"))]
-    let parts: Vec<Vec<u8>> = {
-        use rayon::prelude::*;
-        (0..blocks).into_par_iter().map(block).collect()
-    };
-    #[cfg(target_arch = "wasm32")]
-    let parts: Vec<Vec<u8>> = (0..blocks).map(block).collect();
+    let parts: Vec<Vec<u8>> = crate::cores::map_range(blocks, block);
     text.reserve(parts.iter().map(Vec::len).sum());
     for p in parts {
         text.extend_from_slice(&p);

@@ -3,6 +3,7 @@
 //! read from it), so it may be shared, and it grows with the network, not with the homes.
 
 use super::edge_side;
+use super::feature_lines::write_feature_lines;
 use super::geometry::edge_line;
 use crate::network::PedGraph;
 use crate::pipeline::AuditOutput;
@@ -86,16 +87,11 @@ fn line(graph: &PedGraph, edge: u32) -> Vec<[f64; 2]> {
         .collect()
 }
 
-/// Writes the flows as a GeoJSON FeatureCollection, one feature per line, streaming: only
-/// edges that some child walks.
+/// Writes the flows as a GeoJSON FeatureCollection, one feature per line
+/// ([`write_feature_lines`]): only edges that some child walks, in edge order.
 pub fn write_flows_geojson(out: &AuditOutput, w: &mut dyn Write) -> io::Result<()> {
     let g = &out.network.graph;
     let flows = edge_flows(out);
-    write!(
-        w,
-        "{{\"type\":\"FeatureCollection\",\"caution\":{},\"features\":[",
-        serde_json::to_string(crate::CAUTION)?
-    )?;
     let walked: Vec<u32> = (0..flows.len() as u32)
         .filter(|&e| {
             flows
@@ -103,55 +99,22 @@ pub fn write_flows_geojson(out: &AuditOutput, w: &mut dyn Write) -> io::Result<(
                 .is_some_and(|f| f.shortest > 0 || f.recommended > 0)
         })
         .collect();
-    // Features are written in blocks on every core natively and joined in edge order, so the
-    // file does not depend on the thread count.
-    let block = |edges: &[u32]| -> io::Result<Vec<u8>> {
-        let mut buf = Vec::new();
-        for &e in edges {
-            let (Some(edge), Some(f)) = (g.edges.get(e as usize), flows.get(e as usize)) else {
-                continue;
-            };
-            let feature = FlowFeature {
-                kind: "Feature",
-                geometry: FlowLine {
-                    coordinates: line(g, e),
-                    kind: "LineString",
-                },
-                properties: FlowProps {
-                    edge: e,
-                    kind: edge_side(&edge.kind),
-                    street_id: street_of(g, edge, &out.layers.streets)
-                        .map_or("", |s| s.id.as_str()),
-                    children_shortest: f.shortest,
-                    children_recommended: f.recommended,
-                },
-            };
-            buf.extend_from_slice(b",\n");
-            serde_json::to_writer(&mut buf, &feature)?;
-        }
-        Ok(buf)
-    };
-    // Blocks of 2 048 features, 16 at a time: a few MB in memory, not the whole file.
-    const BLOCK: usize = 2048;
-    let mut first = true;
-    for window in walked.chunks(BLOCK * 16) {
-        #[cfg(not(target_arch = "wasm32"))]
-        let parts: Vec<io::Result<Vec<u8>>> = {
-            use rayon::prelude::*;
-            window.par_chunks(BLOCK).map(block).collect()
-        };
-        #[cfg(target_arch = "wasm32")]
-        let parts: Vec<io::Result<Vec<u8>>> = window.chunks(BLOCK).map(block).collect();
-        for p in parts {
-            let p = p?;
-            // Each feature starts ",\n"; the first of the file starts "\n".
-            let body = match (first, p.first()) {
-                (true, Some(_)) => p.get(1..).unwrap_or(&[]),
-                _ => &p[..],
-            };
-            first &= p.is_empty();
-            w.write_all(body)?;
-        }
-    }
-    w.write_all(b"\n]}\n")
+    write_feature_lines(w, walked.len(), |k| {
+        let e = *walked.get(k)?;
+        let (edge, f) = (g.edges.get(e as usize)?, flows.get(e as usize)?);
+        Some(FlowFeature {
+            kind: "Feature",
+            geometry: FlowLine {
+                coordinates: line(g, e),
+                kind: "LineString",
+            },
+            properties: FlowProps {
+                edge: e,
+                kind: edge_side(&edge.kind),
+                street_id: street_of(g, edge, &out.layers.streets).map_or("", |s| s.id.as_str()),
+                children_shortest: f.shortest,
+                children_recommended: f.recommended,
+            },
+        })
+    })
 }

@@ -2,6 +2,7 @@
 //! Edges, not homes: safe to share.
 
 use super::csv_safe::rows_text;
+use super::feature_lines::write_feature_lines;
 use super::geometry::edge_line;
 use super::round2;
 use crate::pipeline::AuditOutput;
@@ -55,49 +56,59 @@ pub struct HotspotCollection<'a> {
     kind: &'static str,
 }
 
-/// Hotspots as LineStrings (the crossing or the side) with their figures.
-pub fn hotspots_geojson(out: &AuditOutput) -> HotspotCollection<'_> {
+/// Hotspot `i` (in rank order) as a LineString (the crossing or the side) with its figures;
+/// `None` past the last or for an edge the network does not have.
+pub fn hotspot_feature(out: &AuditOutput, i: usize) -> Option<HotspotFeature<'_>> {
     let g = &out.network.graph;
-    let features = out
-        .scores
-        .hotspots
-        .iter()
-        .filter(|h| (h.edge as usize) < g.edges.len())
-        .map(|h| {
-            let line = edge_line(g, h.edge);
-            HotspotFeature {
-                geometry: HotspotLine {
-                    coordinates: line,
-                    kind: "LineString",
-                },
-                properties: HotspotProps {
-                    children: h.children,
-                    class: h.class,
-                    control: &h.control,
-                    crashes: h.crashes,
-                    crashes_ksi: h.crashes_ksi,
-                    crashes_pedestrian: h.crashes_pedestrian,
-                    edge: h.edge,
-                    kind: h.kind,
-                    lanes: h.lanes,
-                    los: h.los.map(|l| l.as_str()),
-                    product: (h.product * 1e4).round() / 1e4,
-                    rank: h.rank,
-                    risk: (h.risk * 1e4).round() / 1e4,
-                    speed_kmh: h.speed_kmh,
-                    street: &h.street,
-                    street_id: &h.street_id,
-                    wait_s: h.wait_s.map(round2),
-                },
-                kind: "Feature",
-            }
-        })
-        .collect();
+    let h = out.scores.hotspots.get(i)?;
+    if h.edge as usize >= g.edges.len() {
+        return None;
+    }
+    Some(HotspotFeature {
+        geometry: HotspotLine {
+            coordinates: edge_line(g, h.edge),
+            kind: "LineString",
+        },
+        properties: HotspotProps {
+            children: h.children,
+            class: h.class,
+            control: &h.control,
+            crashes: h.crashes,
+            crashes_ksi: h.crashes_ksi,
+            crashes_pedestrian: h.crashes_pedestrian,
+            edge: h.edge,
+            kind: h.kind,
+            lanes: h.lanes,
+            los: h.los.map(|l| l.as_str()),
+            product: (h.product * 1e4).round() / 1e4,
+            rank: h.rank,
+            risk: (h.risk * 1e4).round() / 1e4,
+            speed_kmh: h.speed_kmh,
+            street: &h.street,
+            street_id: &h.street_id,
+            wait_s: h.wait_s.map(round2),
+        },
+        kind: "Feature",
+    })
+}
+
+/// Every hotspot as [`hotspot_feature`], in one collection (the page's audit document).
+pub fn hotspots_geojson(out: &AuditOutput) -> HotspotCollection<'_> {
     HotspotCollection {
         caution: crate::CAUTION,
-        features,
+        features: (0..out.scores.hotspots.len())
+            .filter_map(|i| hotspot_feature(out, i))
+            .collect(),
         kind: "FeatureCollection",
     }
+}
+
+/// `hotspots.geojson`: the features of [`hotspots_geojson`], one per line, streaming.
+pub fn write_hotspots_geojson(
+    out: &AuditOutput,
+    w: &mut dyn std::io::Write,
+) -> std::io::Result<()> {
+    write_feature_lines(w, out.scores.hotspots.len(), |i| hotspot_feature(out, i))
 }
 
 /// Hotspots as CSV, ranked.

@@ -1,5 +1,6 @@
 //! GeoJSON exports: routes, network QA, and the noded centrelines (for checks and the map).
 
+use super::feature_lines::write_feature_lines;
 use super::geometry::route_line;
 use super::round2;
 use crate::input::LonLat;
@@ -9,6 +10,7 @@ use crate::pipeline::{AuditOutput, AuditedRoute};
 use serde::Serialize;
 use serde_json::{json, Value};
 use std::collections::BTreeMap;
+use std::io::{self, Write};
 
 fn collection(features: Vec<Value>) -> Value {
     json!({ "type": "FeatureCollection", "caution": crate::CAUTION, "features": features })
@@ -181,6 +183,24 @@ pub fn routes_geojson_of(
     typed_collection(features)
 }
 
+/// `routes.geojson`: the features of [`routes_geojson`], one per line, streaming (a
+/// district's routes never sit whole in memory).
+pub fn write_routes_geojson(out: &AuditOutput, w: &mut dyn Write) -> io::Result<()> {
+    write_feature_lines(w, out.homes.len(), |i| {
+        let Some(h) = out.homes.get(i) else {
+            return Vec::new();
+        };
+        [
+            (&h.shortest, false),
+            (&h.recommended, h.over_detour_cap),
+            (&h.safe, false),
+        ]
+        .into_iter()
+        .filter_map(|(r, over_cap)| r.as_ref().map(|r| route_feature(out, i, r, over_cap)))
+        .collect::<Vec<_>>()
+    })
+}
+
 /// Network QA findings as points.
 pub fn qa_geojson(qa: &Qa) -> Value {
     let features = qa
@@ -219,6 +239,13 @@ pub fn centrelines_geojson(out: &AuditOutput) -> Collection<SegmentProps<'_>> {
         .filter_map(|i| centreline_feature(out, i))
         .collect();
     typed_collection(features)
+}
+
+/// `centrelines.geojson`: the features of [`centrelines_geojson`], one per line, streaming.
+pub fn write_centrelines_geojson(out: &AuditOutput, w: &mut dyn Write) -> io::Result<()> {
+    write_feature_lines(w, out.network.graph.segments.len(), |i| {
+        centreline_feature(out, i)
+    })
 }
 
 /// Segment `i` of the noded centrelines as its feature in [`centrelines_geojson`] (`None` past

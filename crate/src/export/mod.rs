@@ -6,6 +6,7 @@ pub mod atomic;
 pub mod catchments_csv;
 pub mod csv_safe;
 pub mod csvw;
+pub mod feature_lines;
 pub mod flows;
 pub mod geometry;
 pub mod homes_csv;
@@ -16,8 +17,11 @@ pub mod summary;
 
 pub use catchments_csv::{catchments_csv, plan_csv, plan_json};
 pub use homes_csv::homes_csv;
-pub use hotspots::{hotspots_csv, hotspots_geojson};
-pub use layers_geojson::{centrelines_geojson, qa_geojson, routes_geojson, routes_geojson_of};
+pub use hotspots::{hotspots_csv, hotspots_geojson, write_hotspots_geojson};
+pub use layers_geojson::{
+    centrelines_geojson, qa_geojson, routes_geojson, routes_geojson_of, write_centrelines_geojson,
+    write_routes_geojson,
+};
 pub use summary::{network_summary, summary_json};
 
 /// Rounds metres (and other figures) for output: two decimals is centimetres.

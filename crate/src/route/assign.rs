@@ -44,32 +44,30 @@ pub fn assign_schools(
         .enumerate()
         .map(|(i, s)| (s.id.as_str(), i))
         .collect();
-    let mut out: Vec<Assignment> = homes
-        .iter()
-        .map(|h| {
-            if let Some(&s) = h.school.as_deref().and_then(|id| by_id.get(id)) {
-                return Assignment {
-                    school: Some(s),
-                    by: AssignedBy::Property,
-                };
-            }
-            let p = Point::new(h.at[0], h.at[1]);
-            for c in catchments {
-                if let Some(&s) = by_id.get(c.school_id.as_str()) {
-                    if c.area.contains(&p) {
-                        return Assignment {
-                            school: Some(s),
-                            by: AssignedBy::Catchment,
-                        };
-                    }
+    // Each home on its own (a point in polygon test per catchment): on every core natively.
+    let out: Vec<Assignment> = crate::cores::map(homes, |h| {
+        if let Some(&s) = h.school.as_deref().and_then(|id| by_id.get(id)) {
+            return Assignment {
+                school: Some(s),
+                by: AssignedBy::Property,
+            };
+        }
+        let p = Point::new(h.at[0], h.at[1]);
+        for c in catchments {
+            if let Some(&s) = by_id.get(c.school_id.as_str()) {
+                if c.area.contains(&p) {
+                    return Assignment {
+                        school: Some(s),
+                        by: AssignedBy::Catchment,
+                    };
                 }
             }
-            Assignment {
-                school: None,
-                by: AssignedBy::Unassigned,
-            }
-        })
-        .collect();
+        }
+        Assignment {
+            school: None,
+            by: AssignedBy::Unassigned,
+        }
+    });
     if out.iter().all(|a| a.school.is_some()) {
         return out;
     }
@@ -101,26 +99,29 @@ pub fn assign_schools(
         &entrance_sources(graph, walk_cost, &flat),
         &[],
     );
-    for (i, a) in out.iter_mut().enumerate() {
+    // Each home reads the one tree: on every core natively, in home order.
+    crate::cores::map_range(out.len(), |i| {
+        let a = out[i];
         if a.school.is_some() {
-            continue;
+            return a;
         }
-        if let Some(att) = &home_att[i] {
-            let same_segment = graph
-                .edges
-                .get(att.edge as usize)
-                .and_then(|e| on_segment.get(&e.segment()))
-                .map_or(&[][..], |v| v.as_slice());
-            let near = same_segment.iter().copied();
-            if let Some(r) = route_to_school_among(graph, &tree, walk_cost, att, &flat, near) {
-                *a = Assignment {
-                    school: Some(flat_school[r.entrance as usize]),
-                    by: AssignedBy::NearestByWalking,
-                };
-            }
+        let Some(att) = home_att.get(i).and_then(Option::as_ref) else {
+            return a;
+        };
+        let same_segment = graph
+            .edges
+            .get(att.edge as usize)
+            .and_then(|e| on_segment.get(&e.segment()))
+            .map_or(&[][..], |v| v.as_slice());
+        let near = same_segment.iter().copied();
+        match route_to_school_among(graph, &tree, walk_cost, att, &flat, near) {
+            Some(r) => Assignment {
+                school: flat_school.get(r.entrance as usize).copied(),
+                by: AssignedBy::NearestByWalking,
+            },
+            None => a,
         }
-    }
-    out
+    })
 }
 
 #[cfg(test)]

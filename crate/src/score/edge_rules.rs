@@ -137,13 +137,7 @@ impl<'a> EdgeRules<'a> {
                 [Students::Elementary, Students::Secondary].map(|s| live.hits(e, s).into_owned());
             (hits, live.risk_points(e), live.wait_s(e))
         };
-        #[cfg(not(target_arch = "wasm32"))]
-        let per_edge: Vec<_> = {
-            use rayon::prelude::*;
-            rows.par_iter().map(one).collect()
-        };
-        #[cfg(target_arch = "wasm32")]
-        let per_edge: Vec<_> = rows.iter().map(one).collect();
+        let per_edge: Vec<_> = crate::cores::map(&rows, one);
         let mut t = EdgeRules {
             live,
             row,

@@ -428,13 +428,5 @@ pub fn score_homes(
     };
     // Each home's score reads only its own routes: natively on every core, collected in home
     // order, so the scores are the same on any number of threads.
-    #[cfg(not(target_arch = "wasm32"))]
-    {
-        use rayon::prelude::*;
-        homes.par_iter().map(one).collect()
-    }
-    #[cfg(target_arch = "wasm32")]
-    {
-        homes.iter().map(one).collect()
-    }
+    crate::cores::map(homes, one)
 }

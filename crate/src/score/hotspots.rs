@@ -75,23 +75,41 @@ pub fn hotspots(
     // Per edge: (children, product), and its risk points once walked (`walked` lists those
     // edges). Dense arrays over the graph's edges: a county's routes take millions of steps.
     let n = graph.edges.len();
-    let mut acc: Vec<(f64, f64)> = vec![(0.0, 0.0); n];
+    let recommended = || {
+        homes.iter().zip(layer_homes).filter_map(|(h, home)| {
+            let rec = h.recommended.as_ref()?;
+            Some((home.children as f64, &rec.route.steps))
+        })
+    };
+    // The edges walked, in the order first walked; their risk points on every core natively.
     let mut risk_of: Vec<Option<f64>> = vec![None; n];
     let mut walked: Vec<u32> = Vec::new();
-    for (i, h) in homes.iter().enumerate() {
-        let (Some(rec), Some(home)) = (&h.recommended, layer_homes.get(i)) else {
-            continue;
-        };
-        let w = home.children as f64;
-        for step in &rec.route.steps {
+    for (_, steps) in recommended() {
+        for step in steps.iter() {
+            if let Some(r @ None) = risk_of.get_mut(step.edge as usize) {
+                *r = Some(0.0);
+                walked.push(step.edge);
+            }
+        }
+    }
+    let risks = crate::cores::map(&walked, |&e| {
+        graph.edges.get(e as usize).map_or(0.0, |edge| {
+            edge_risk_points(graph, edge, streets, &config.risk)
+        })
+    });
+    for (&e, r) in walked.iter().zip(risks) {
+        if let Some(slot) = risk_of.get_mut(e as usize) {
+            *slot = Some(r);
+        }
+    }
+    // Per edge (children, product), summed in home order.
+    let mut acc: Vec<(f64, f64)> = vec![(0.0, 0.0); n];
+    for (w, steps) in recommended() {
+        for step in steps.iter() {
             let k = step.edge as usize;
-            let (Some(edge), Some(r)) = (graph.edges.get(k), risk_of.get_mut(k)) else {
+            let (Some(edge), Some(Some(r))) = (graph.edges.get(k), risk_of.get(k).copied()) else {
                 continue;
             };
-            let r = *r.get_or_insert_with(|| {
-                walked.push(step.edge);
-                edge_risk_points(graph, edge, streets, &config.risk)
-            });
             if r <= 0.0 {
                 continue;
             }
@@ -106,60 +124,61 @@ pub fn hotspots(
             }
         }
     }
-    let mut out: Vec<Hotspot> = walked
-        .into_iter()
-        .filter_map(|e| {
-            let (children, product) = acc.get(e as usize).copied()?;
-            if children <= 0.0 {
-                return None;
+    // Each walked edge's row reads that edge alone: on every core natively.
+    let mut out: Vec<Hotspot> = crate::cores::map(&walked, |&e| {
+        let (children, product) = acc.get(e as usize).copied()?;
+        if children <= 0.0 {
+            return None;
+        }
+        let edge = graph.edges.get(e as usize)?;
+        let street = street_of(graph, edge, streets)?;
+        let (kind, control) = match &edge.kind {
+            PedEdgeKind::Crossing { control, .. } => ("crossing", control_label(control)),
+            PedEdgeKind::Side { sidewalk, .. } => (
+                "side",
+                serde_json::to_value(sidewalk)
+                    .ok()
+                    .and_then(|v| v.as_str().map(|s| format!("sidewalk_{s}")))
+                    .unwrap_or_default(),
+            ),
+            PedEdgeKind::Path { .. } => ("path", String::new()),
+        };
+        let (wait_s, los) = match edge_facts(graph, edge, streets, &config.risk) {
+            Some(EdgeFacts::Crossing(f)) => {
+                let d = gap_delay(
+                    f.width_m,
+                    f.lanes,
+                    peak_flow_per_s(f.vehicles_15min),
+                    config.risk.walk_mps,
+                    config.risk.start_up_s,
+                );
+                (Some(d.average_delay_s), Some(d.los))
             }
-            let edge = graph.edges.get(e as usize)?;
-            let street = street_of(graph, edge, streets)?;
-            let (kind, control) = match &edge.kind {
-                PedEdgeKind::Crossing { control, .. } => ("crossing", control_label(control)),
-                PedEdgeKind::Side { sidewalk, .. } => (
-                    "side",
-                    serde_json::to_value(sidewalk)
-                        .ok()
-                        .and_then(|v| v.as_str().map(|s| format!("sidewalk_{s}")))
-                        .unwrap_or_default(),
-                ),
-                PedEdgeKind::Path { .. } => ("path", String::new()),
-            };
-            let (wait_s, los) = match edge_facts(graph, edge, streets, &config.risk) {
-                Some(EdgeFacts::Crossing(f)) => {
-                    let d = gap_delay(
-                        f.width_m,
-                        f.lanes,
-                        peak_flow_per_s(f.vehicles_15min),
-                        config.risk.walk_mps,
-                        config.risk.start_up_s,
-                    );
-                    (Some(d.average_delay_s), Some(d.los))
-                }
-                _ => (None, None),
-            };
-            Some(Hotspot {
-                rank: 0,
-                edge: e,
-                kind,
-                street_id: street.id.clone(),
-                street: street_label(street),
-                class: street.class.as_str(),
-                control,
-                speed_kmh: street.speed_kmh,
-                lanes: street.lanes,
-                children,
-                risk: risk_of.get(e as usize).copied().flatten().unwrap_or(0.0),
-                product,
-                wait_s,
-                los,
-                crashes: 0,
-                crashes_pedestrian: 0,
-                crashes_ksi: 0,
-            })
+            _ => (None, None),
+        };
+        Some(Hotspot {
+            rank: 0,
+            edge: e,
+            kind,
+            street_id: street.id.clone(),
+            street: street_label(street),
+            class: street.class.as_str(),
+            control,
+            speed_kmh: street.speed_kmh,
+            lanes: street.lanes,
+            children,
+            risk: risk_of.get(e as usize).copied().flatten().unwrap_or(0.0),
+            product,
+            wait_s,
+            los,
+            crashes: 0,
+            crashes_pedestrian: 0,
+            crashes_ksi: 0,
         })
-        .collect();
+    })
+    .into_iter()
+    .flatten()
+    .collect();
     out.sort_by(|a, b| b.product.total_cmp(&a.product).then(a.edge.cmp(&b.edge)));
     for (i, h) in out.iter_mut().enumerate() {
         h.rank = i + 1;

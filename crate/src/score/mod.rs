@@ -75,8 +75,12 @@ pub fn score_audit(
     homes: &[HomeResult],
     config: &Config,
 ) -> Scores {
-    let mut home_scores = home::score_homes(homes, &layers.schools, graph, &layers.streets, config);
     let located = observed::locate(layers, graph, config.score.observed_join_m);
+    // The hotspots read the routes, not the scores: both side by side natively.
+    let (mut home_scores, mut hotspots) = crate::cores::join(
+        || home::score_homes(homes, &layers.schools, graph, &layers.streets, config),
+        || hotspots::hotspots(homes, &layers.homes, graph, &layers.streets, config),
+    );
     if !layers.rail_crossings.is_empty() || !layers.crashes.is_empty() {
         for (h, sc) in homes.iter().zip(home_scores.iter_mut()) {
             let Some(rec) = &h.recommended else { continue };
@@ -107,7 +111,6 @@ pub fn score_audit(
             catchment::score_catchment(s, &members, &config.score)
         })
         .collect();
-    let mut hotspots = hotspots::hotspots(homes, &layers.homes, graph, &layers.streets, config);
     for h in hotspots.iter_mut() {
         (h.crashes, h.crashes_pedestrian, h.crashes_ksi) =
             observed::crash_counts_of(h.edge, layers, &located);
