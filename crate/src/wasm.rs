@@ -285,6 +285,7 @@ pub fn audit(
         let mut held = held.borrow_mut();
         held.audits.clear();
         held.tiles = None;
+        held.hotspot_tiles = None;
         held.hold(out, None)
     })
 }
@@ -300,6 +301,8 @@ struct Held {
     audits: Vec<(u32, AuditOutput)>,
     /// The segment index of the audit whose map tiles were asked for last.
     tiles: Option<(u32, export::map_tiles::SegmentIndex)>,
+    /// The hotspot points of the audit whose hotspot tiles were asked for last.
+    hotspot_tiles: Option<(u32, export::map_tiles::HotspotIndex)>,
 }
 
 impl Held {
@@ -425,6 +428,32 @@ pub fn street_tile(audit_id: u32, z: u32, x: u32, y: u32) -> Result<Vec<u8>, JsV
         let (_, index) =
             tiles.get_or_insert_with(|| (audit_id, export::map_tiles::SegmentIndex::build(out)));
         export::map_tiles::street_tile(out, index, z, x, y).map_err(error_to_js)
+    })
+}
+
+/// The hotspot tile `z/x/y` of a held audit as Mapbox Vector Tile bytes: each hotspot a point
+/// with its index among the document's hotspots and its weight ([`export::map_tiles`]), so the
+/// map does not tile a district's hotspots itself. The points are placed on the first tile
+/// asked of an audit and kept for that audit.
+#[wasm_bindgen(js_name = hotspotTile)]
+pub fn hotspot_tile(audit_id: u32, z: u32, x: u32, y: u32) -> Result<Vec<u8>, JsValue> {
+    HELD.with(|held| {
+        let mut held = held.borrow_mut();
+        let Held {
+            audits,
+            hotspot_tiles,
+            ..
+        } = &mut *held;
+        let out = held_audit(audits, audit_id, "")?;
+        if hotspot_tiles
+            .as_ref()
+            .is_some_and(|(id, _)| *id != audit_id)
+        {
+            *hotspot_tiles = None;
+        }
+        let (_, index) = hotspot_tiles
+            .get_or_insert_with(|| (audit_id, export::map_tiles::HotspotIndex::build(out)));
+        export::map_tiles::hotspot_tile(index, z, x, y).map_err(error_to_js)
     })
 }
 

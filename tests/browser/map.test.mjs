@@ -180,3 +180,42 @@ test('single-file build: street names from the inlined glyphs', async () => {
   assert.deepEqual(errors, [], 'no errors in the page');
   await page.context().close();
 });
+
+test('hotspots drawn from the worker\'s tiles: each one sized by its weight, a click opens its popup', async () => {
+  const { page, leaks, errors } = await guardedPage(browser, { width: 1366, height: 768 });
+  await page.goto(base);
+  await page.waitForFunction(() => document.body.dataset.audit === 'idle');
+  await page.click('#demo');
+  await waitAudits(page, 1);
+  await idle(page);
+  // The whole town in view: every hotspot of the view is drawn once, with its index and weight.
+  const { spots, drawn } = await page.evaluate(() => ({
+    spots: window.catchwalk.hotspots(),
+    drawn: window.catchwalk.map.queryRenderedFeatures({ layers: ['hotspots'] }).map((f) => f.properties),
+  }));
+  const all = await page.evaluate(() => window.catchwalk.hotspotCount());
+  assert.ok(all > 20, `${all} hotspots in the demo town`);
+  const ids = new Set(drawn.map((p) => p.i));
+  assert.equal(ids.size, all, 'every hotspot is drawn (from the tiles)');
+  const top = drawn.find((p) => p.i === 0);
+  assert.equal(top.weight, 1, 'the largest has weight 1');
+  // The largest, clicked at its line's middle: the popup is that of the hotspot drawn on top
+  // there, read from the view by the index the tile carries.
+  const line = spots[0].geometry.coordinates;
+  const mid = line[Math.floor(line.length / 2)];
+  await page.evaluate((mid) => window.catchwalk.map.jumpTo({ center: mid, zoom: 17 }), mid);
+  await idle(page);
+  const pt = await page.evaluate((mid) => window.catchwalk.map.project(mid), mid);
+  const under = await page.evaluate((pt) => window.catchwalk.map.queryRenderedFeatures([pt.x, pt.y], { layers: ['hotspots'] }).map((f) => f.properties.i), pt);
+  assert.ok(under.includes(0), `the largest hotspot is drawn at its place (${under})`);
+  const shown = await page.evaluate((i) => window.catchwalk.hotspot(i), under[0]);
+  const box = await page.locator('#map').boundingBox();
+  await page.mouse.click(box.x + pt.x, box.y + pt.y);
+  const popup = await page.locator('.maplibregl-popup').innerText();
+  assert.match(popup, new RegExp(`Hotspot: #${shown.rank} `), popup);
+  assert.ok(popup.includes(shown.street), popup);
+  await page.screenshot({ path: join(shots, '19-laptop-hotspot-popup.png') });
+  assert.deepEqual(leaks, [], 'no request leaves 127.0.0.1');
+  assert.deepEqual(errors, [], 'no errors in the page');
+  await page.context().close();
+});

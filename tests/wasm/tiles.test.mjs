@@ -2,7 +2,9 @@
 // the demo town and read back with Mapbox's reference decoder (@mapbox/vector-tile and pbf,
 // from the npm registry): every segment of the command line's centrelines.geojson is in the
 // tiles with its class and speed, on its own line (below zoom 12 only the arterials and
-// collectors), and a tile outside the town is empty.
+// collectors), and a tile outside the town is empty. The hotspot tiles hold every hotspot of
+// the command line's hotspots.geojson once per zoom, as a point at the middle position of its
+// line, with its index among the document's hotspots and its children x risk over the largest.
 
 import { test } from 'node:test';
 import { strict as assert } from 'node:assert';
@@ -49,14 +51,64 @@ function toLineM(p, line) {
   return best;
 }
 
-test('street tiles hold every segment with its class and speed, on its line', async () => {
+/** The demo town audited by the wasm build (held by it) and by the command line (its folder). */
+async function audited() {
   const core = await import(pathToFileURL(join(wasmDir, 'catchwalk.js')).href);
   core.initSync({ module: readFileSync(join(wasmDir, 'catchwalk_bg.wasm')) });
   const doc = JSON.parse(core.audit(layers, '', () => true));
-  assert.ok(!('centrelines' in doc), 'the audit document carries no centrelines');
   const out = join(mkdtempSync(join(tmpdir(), 'cw-tiles-')), 'out');
   execFileSync(cli, ['audit', '--streets', join(demo, 'streets.geojson'), '--crossings', join(demo, 'crossings.geojson'),
     '--schools', join(demo, 'schools.geojson'), '--homes', join(demo, 'homes.geojson'), '--out', out], { stdio: 'pipe' });
+  return { core, doc, out };
+}
+
+test('hotspot tiles hold every hotspot once, at its line\'s middle, with its index and weight', async () => {
+  const { core, doc, out } = await audited();
+  const file = JSON.parse(readFileSync(join(out, 'hotspots.geojson'), 'utf8')).features;
+  assert.ok(file.length > 20, `${file.length} hotspots in the demo town`);
+  // The document's hotspots are the file's, in its order: the tiles' index points into them.
+  assert.deepEqual(doc.hotspots.features.map((f) => f.properties.edge), file.map((f) => f.properties.edge));
+  const largest = Math.max(...file.map((f) => f.properties.product));
+  for (const z of [9, 16]) {
+    const [x0, y0] = tileOf([doc.bounds[0], doc.bounds[3]], z);
+    const [x1, y1] = tileOf([doc.bounds[2], doc.bounds[1]], z);
+    const unitM = (40_075_016 * Math.cos((doc.bounds[1] * Math.PI) / 180)) / 2 ** z / 4096;
+    const seen = new Map();
+    for (let x = x0; x <= x1; x++) {
+      for (let y = y0; y <= y1; y++) {
+        const layer = new VectorTile(new Pbf(core.hotspotTile(doc.audit_id, z, x, y))).layers.hotspots;
+        if (!layer) continue;
+        assert.equal(layer.extent, 4096);
+        for (let k = 0; k < layer.length; k++) {
+          const f = layer.feature(k);
+          assert.equal(f.type, 1, 'a point');
+          const spot = file[f.properties.i];
+          assert.ok(spot, `hotspot ${f.properties.i} is in hotspots.geojson`);
+          assert.ok(Math.abs(f.properties.weight - spot.properties.product / largest) < 1e-12);
+          const line = spot.geometry.coordinates;
+          const [lon, lat] = f.toGeoJSON(x, y, z).geometry.coordinates;
+          const mid = line[Math.floor(line.length / 2)];
+          const offM = toLineM([lon, lat], [mid, mid]);
+          // Inside its own tile (not only in a neighbour's buffer): counted there.
+          const [tx, ty] = tileOf(mid, z);
+          if (tx === x && ty === y) {
+            assert.ok(!seen.has(f.properties.i), `hotspot ${f.properties.i} twice at zoom ${z}`);
+            seen.set(f.properties.i, offM);
+          }
+          assert.ok(offM <= unitM * 0.75, `zoom ${z}: hotspot ${f.properties.i} ${offM.toFixed(2)} m off (unit ${unitM.toFixed(2)} m)`);
+        }
+      }
+    }
+    assert.equal(seen.size, file.length, `every hotspot in its own zoom-${z} tile`);
+  }
+  assert.equal(new VectorTile(new Pbf(core.hotspotTile(doc.audit_id, 12, 0, 0))).layers.hotspots?.length ?? 0, 0);
+  assert.throws(() => core.hotspotTile(doc.audit_id, 17, 0, 0), /zoom past 16/);
+  assert.throws(() => core.hotspotTile(doc.audit_id + 1, 3, 0, 0), /no longer held/);
+});
+
+test('street tiles hold every segment with its class and speed, on its line', async () => {
+  const { core, doc, out } = await audited();
+  assert.ok(!('centrelines' in doc), 'the audit document carries no centrelines');
   const segments = JSON.parse(readFileSync(join(out, 'centrelines.geojson'), 'utf8')).features;
   const bySegment = new Map(segments.map((f) => [f.properties.segment, f]));
 

@@ -24,10 +24,11 @@ EXAMPLES = TARGET / "release" / "examples"
 WASM = OUT / "wasm"
 
 
-def timed(cmd):
+def timed(cmd, env=None):
     """Runs cmd under /usr/bin/time -v: (stdout, wall seconds, peak RSS MB)."""
     t = time.perf_counter()
-    p = subprocess.run(["/usr/bin/time", "-v", *map(str, cmd)], capture_output=True, text=True)
+    p = subprocess.run(["/usr/bin/time", "-v", *map(str, cmd)], capture_output=True, text=True,
+                       env=None if env is None else {**os.environ, **env})
     wall = time.perf_counter() - t
     if p.returncode != 0:
         sys.exit(f"failed: {' '.join(map(str, cmd))}\n{p.stderr[-2000:]}")
@@ -52,12 +53,15 @@ def scale(segments, homes, nx_trees, wasm):
     out_mb = sum(f.stat().st_size for f in (city / "audit").iterdir()) / 1e6
     stages_out, _, stages_mb = timed([EXAMPLES / "bench_stages", city])
     stages = json.loads(stages_out)
+    # The same natively on one thread: the wasm build has one, so this compares the code alone.
+    one_out, _, _ = timed([EXAMPLES / "bench_stages", city], env={"RAYON_NUM_THREADS": "1"})
     libs_args = [sys.executable, ROOT / "tools/bench/graph_libs.py", city]
     if segments >= 50_000:
         libs_args += ["--networkx-trees", str(nx_trees)]
     libs = json.loads(subprocess.run(libs_args, check=True, capture_output=True, text=True).stdout)
     row = {"city": made, "cli_s": cli_s, "cli_peak_mb": cli_mb, "outputs_mb": out_mb,
-           "stages": stages, "stages_peak_mb": stages_mb, "libs": libs}
+           "stages": stages, "stages_one_thread": json.loads(one_out),
+           "stages_peak_mb": stages_mb, "libs": libs}
     if wasm:
         w_out, _, w_mb = timed(["node", ROOT / "tools/bench/wasm_core.mjs", WASM, city])
         row["wasm"] = json.loads(w_out)
@@ -75,13 +79,15 @@ def table(rows):
         "per school (shortest, recommended, safe) on the side-of-street graph, audits every "
         "route and scores. Ratios are against igraph in the same run.", "",
         "| segments | homes | schools | CLI run, outputs written (s) | x igraph | CLI peak MB | "
-        "outputs MB | native core (s) | wasm core (s) | wasm / native | igraph (s) | networkx (s) |",
-        "|---|---|---|---|---|---|---|---|---|---|---|---|",
+        "outputs MB | native core (s) | native, 1 thread (s) | wasm core (s) | wasm / native | "
+        "wasm / 1 thread | igraph (s) | networkx (s) |",
+        "|---|---|---|---|---|---|---|---|---|---|---|---|---|---|",
     ]
     for r in rows:
         c, l = r["city"], r["libs"]
         # Native core like the wasm figure: reading the layers plus the audit.
-        core = (r["stages"]["core_ms"] + dict(r["stages"]["stages_ms"])["read"]) / 1000
+        core_of = lambda st: (st["core_ms"] + dict(st["stages_ms"])["read"]) / 1000
+        core, one = core_of(r["stages"]), core_of(r["stages_one_thread"])
         w = r.get("wasm")
         wasm_s = w["timings_ms"]["total_ms"] / 1000 if w else None
         nx = f"{l['networkx_s']:.2f}" + (f" (from {l['networkx_trees_timed']} trees)"
@@ -89,8 +95,9 @@ def table(rows):
         lines.append(
             f"| {c['segments']} | {c['homes']} | {c['schools']} | {r['cli_s']:.2f} | "
             f"{r['cli_s'] / ig(r):.2f} | {r['cli_peak_mb']:.0f} | {r['outputs_mb']:.0f} | "
-            f"{core:.2f} | {'-' if wasm_s is None else f'{wasm_s:.2f}'} | "
-            f"{'-' if wasm_s is None else f'{wasm_s / core:.2f}'} | {ig(r):.2f} | {nx} |")
+            f"{core:.2f} | {one:.2f} | {'-' if wasm_s is None else f'{wasm_s:.2f}'} | "
+            f"{'-' if wasm_s is None else f'{wasm_s / core:.2f}'} | "
+            f"{'-' if wasm_s is None else f'{wasm_s / one:.2f}'} | {ig(r):.2f} | {nx} |")
     lines += ["", "## Stages (native, ms; the largest city)", "", "| stage | ms | x igraph |",
               "|---|---|---|"]
     big = rows[-1]

@@ -1,7 +1,7 @@
 // The page's side of the audit worker: starts it, hands it the compiled core, runs audits,
 // and cancels by terminating the worker and starting a fresh one.
 
-import type { Feature, FeatureCollection, FromWorker, RouteProps, ToWorker } from './types';
+import type { Feature, FeatureCollection, FromWorker, RouteProps, TileLayer, ToWorker } from './types';
 
 /** What the build inlines into the single-file page (absent when served as files). */
 export interface Inline {
@@ -181,9 +181,9 @@ export class Engine {
     return JSON.parse(r.docText) as Feature | null;
   }
 
-  /** Street tile z/x/y of the held audit `auditId` as Mapbox Vector Tile bytes. */
-  async tile(auditId: number, z: number, x: number, y: number): Promise<Uint8Array> {
-    const r = await this.send((id) => ({ type: 'tile', id, audit: auditId, z, x, y }), () => {});
+  /** Street or hotspot tile z/x/y of the held audit `auditId` as Mapbox Vector Tile bytes. */
+  async tile(layer: TileLayer, auditId: number, z: number, x: number, y: number): Promise<Uint8Array> {
+    const r = await this.send((id) => ({ type: 'tile', id, layer, audit: auditId, z, x, y }), () => {});
     return r.bytes ?? new Uint8Array(0);
   }
 

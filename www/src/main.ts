@@ -56,7 +56,7 @@ const map = new AuditMap($('map'), {
   onHome: (id) => select('home', id),
   onCatchment: (id) => select('catchment', id),
   onNote: (id) => notes.show(id),
-  streetTile: (audit, z, x, y) => engine.tile(audit, z, x, y),
+  tile: (layer, audit, z, x, y) => engine.tile(layer, audit, z, x, y),
   // After a cancel the fresh worker holds no audit: the streets not drawn yet need it again.
   onTileFailed: (why) => {
     if (/no longer held/.test(why) && !running) setStatus('Some streets cannot be drawn: the audit shown is no longer held by the worker (after a cancel). Press “Run audit” to draw them.');
@@ -782,6 +782,8 @@ $('basemap-clear').addEventListener('click', () => { basemapInput.value = ''; lo
   state: () => JSON.parse(JSON.stringify(pageState())) as PageState,
   view: () => view && { catchments: view.catchments, summary: view.doc.summary, reaudit: view.doc['reaudit'] ?? null, homesCsv: view.doc.homes_csv, docKeys: Object.keys(view.doc) },
   hotspots: () => view?.hotspots.slice(0, 20).map((h) => ({ properties: h.properties, geometry: h.geometry })) ?? [],
+  hotspotCount: () => view?.hotspots.length ?? 0,
+  hotspot: (i: number) => view?.hotspots[i]?.properties ?? null,
   comparison: () => compare.last?.comparison ?? null,
   comparisonRoutes: () => compare.drawn,
   coreMemory: () => Number(view?.doc['core_memory_bytes'] ?? 0),

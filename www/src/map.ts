@@ -22,7 +22,7 @@ import {
 import { addBasemap, removeBasemap, type BasemapInfo } from './basemap';
 import { GLYPHS_URL, LABEL_FONT, registerGlyphs } from './labels';
 import type { View } from './model';
-import type { Feature, FeatureCollection } from './types';
+import type { Feature, FeatureCollection, TileLayer } from './types';
 import { addCrashLayer, crashFeatures, crashPopupLines } from './crashes';
 
 
@@ -36,9 +36,9 @@ export interface MapEvents {
   onHome: (id: string) => void;
   onCatchment: (schoolId: string) => void;
   onNote?: (id: string) => void;
-  /** Street tile z/x/y of a held audit (Mapbox Vector Tile bytes), from the worker. */
-  streetTile: (audit: number, z: number, x: number, y: number) => Promise<Uint8Array>;
-  /** A street tile could not be had (the worker was restarted and holds the audit no more). */
+  /** Street or hotspot tile z/x/y of a held audit (Mapbox Vector Tile bytes), from the worker. */
+  tile: (layer: TileLayer, audit: number, z: number, x: number, y: number) => Promise<Uint8Array>;
+  /** A map tile could not be had (the worker was restarted and holds the audit no more). */
   onTileFailed?: (why: string) => void;
 }
 
@@ -50,29 +50,35 @@ export interface Pick {
   segment: number | null;
 }
 
-let streetTiles: MapEvents['streetTile'] | null = null;
+let mapTiles: MapEvents['tile'] | null = null;
 let tileFailed: MapEvents['onTileFailed'] | null = null;
 
-/** Registers (once) the `cwstreets:` protocol the streets source asks its tiles through: each
+/** The protocol each tiled layer's source asks its tiles through (`cwstreets://audit/z/x/y`). */
+const TILE_PROTOCOLS: Record<TileLayer, string> = { streets: 'cwstreets', hotspots: 'cwhotspots' };
+
+/** Registers (once) the protocols the streets and hotspots sources ask their tiles through: each
  * goes to the worker that holds the audit. A tile of no audit, or of one the worker no longer
  * holds (after a cancel), is empty. */
-function registerStreetTiles(get: MapEvents['streetTile'], failed: MapEvents['onTileFailed']) {
-  const first = streetTiles === null;
-  streetTiles = get;
+function registerMapTiles(get: MapEvents['tile'], failed: MapEvents['onTileFailed']) {
+  const first = mapTiles === null;
+  mapTiles = get;
   tileFailed = failed;
   if (!first) return;
-  maplibregl.addProtocol('cwstreets', async (params) => {
-    const m = /^cwstreets:\/\/(\d+)\/(\d+)\/(\d+)\/(\d+)/.exec(params.url);
-    if (!m || m[1] === '0' || !streetTiles) return { data: new ArrayBuffer(0) };
-    try {
-      const bytes = await streetTiles(Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4]));
-      const whole = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength;
-      return { data: whole ? bytes.buffer : bytes.slice().buffer };
-    } catch (e) {
-      tileFailed?.((e as Error).message);
-      return { data: new ArrayBuffer(0) };
-    }
-  });
+  for (const [layer, protocol] of Object.entries(TILE_PROTOCOLS) as [TileLayer, string][]) {
+    const address = new RegExp(`^${protocol}://(\\d+)/(\\d+)/(\\d+)/(\\d+)`);
+    maplibregl.addProtocol(protocol, async (params) => {
+      const m = address.exec(params.url);
+      if (!m || m[1] === '0' || !mapTiles) return { data: new ArrayBuffer(0) };
+      try {
+        const bytes = await mapTiles(layer, Number(m[1]), Number(m[2]), Number(m[3]), Number(m[4]));
+        const whole = bytes.byteOffset === 0 && bytes.byteLength === bytes.buffer.byteLength;
+        return { data: whole ? bytes.buffer : bytes.slice().buffer };
+      } catch (e) {
+        tileFailed?.((e as Error).message);
+        return { data: new ArrayBuffer(0) };
+      }
+    });
+  }
 }
 
 export class AuditMap {
@@ -86,7 +92,7 @@ export class AuditMap {
 
   constructor(container: HTMLElement, private events: MapEvents) {
     registerGlyphs();
-    registerStreetTiles(events.streetTile, events.onTileFailed);
+    registerMapTiles(events.tile, events.onTileFailed);
     this.map = new maplibregl.Map({
       container,
       style: {
@@ -115,7 +121,9 @@ export class AuditMap {
     // The streets as vector tiles the worker cuts on demand (`cwstreets://audit/z/x/y`), so the
     // map never holds or tiles a district's segments as GeoJSON; beyond zoom 16 it scales up.
     m.addSource('streets', { type: 'vector', tiles: ['cwstreets://0/{z}/{x}/{y}'], minzoom: 0, maxzoom: 16 });
-    for (const id of ['catchments', 'street-names', 'sel-routes', 'crossings', 'qa', 'hotspots', 'sel-home', 'found', 'edits', 'notes', 'cmp-routes'])
+    // The hotspots likewise (`cwhotspots://`): a point each with its index and weight.
+    m.addSource('hotspots', { type: 'vector', tiles: ['cwhotspots://0/{z}/{x}/{y}'], minzoom: 0, maxzoom: 16 });
+    for (const id of ['catchments', 'street-names', 'sel-routes', 'crossings', 'qa', 'sel-home', 'found', 'edits', 'notes', 'cmp-routes'])
       m.addSource(id, { type: 'geojson', data: data(empty()) });
     m.addSource('homes', {
       type: 'geojson',
@@ -225,6 +233,7 @@ export class AuditMap {
       id: 'hotspots',
       type: 'circle',
       source: 'hotspots',
+      'source-layer': 'hotspots',
       paint: {
         'circle-color': HOTSPOT_COLOR,
         'circle-opacity': 0.35,
@@ -363,18 +372,10 @@ export class AuditMap {
     });
     this.set('qa', doc.qa);
     this.set('crashes', crashFeatures(doc));
-    const maxHot = view.hotspots.reduce((m, f) => Math.max(m, Number(f.properties['product'] ?? 0)), 1e-9);
-    // The map holds each hotspot's place, size and index only; a popup reads the rest from the
-    // view (a district's 34 000 hotspots with every property cost the map's worker 290 MB).
+    // The map's hotspot tiles hold each one's place, weight and index only; a popup reads the
+    // rest from the view (a district's 34 000 hotspots as GeoJSON cost the map 190-280 MB).
     this.hotspotList = view.hotspots;
-    this.set('hotspots', {
-      type: 'FeatureCollection',
-      features: view.hotspots.map((f, i) => ({
-        type: 'Feature',
-        geometry: pointOf(f),
-        properties: { i, weight: Number(f.properties['product'] ?? 0) / maxHot },
-      })),
-    });
+    (this.map.getSource('hotspots') as VectorTileSource | undefined)?.setTiles([`cwhotspots://${doc.audit_id}/{z}/{x}/{y}`]);
     this.setCatchments(view, catchmentFile, null);
     this.setSchools(view);
     if (fit) {
@@ -593,15 +594,6 @@ function popupContent(layer: string, p: Record<string, unknown>): HTMLElement {
     line('', p['message']);
   }
   return div;
-}
-
-function pointOf(f: Feature): { type: string; coordinates: unknown } | null {
-  const g = f.geometry;
-  if (!g || g.type === 'Point') return g;
-  const coords = collect(g.coordinates);
-  if (!coords.length) return null;
-  const mid = coords[Math.floor(coords.length / 2)];
-  return { type: 'Point', coordinates: mid };
 }
 
 function collect(c: unknown, out: [number, number][] = []): [number, number][] {

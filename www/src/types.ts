@@ -148,7 +148,7 @@ export type ToWorker =
   | { type: 'reaudit'; id: number; interventions: string }
   | { type: 'routes'; id: number; audit: number; query: string }
   | { type: 'segment'; id: number; audit: number; segment: number }
-  | { type: 'tile'; id: number; audit: number; z: number; x: number; y: number }
+  | { type: 'tile'; id: number; layer: TileLayer; audit: number; z: number; x: number; y: number }
   | { type: 'release'; id: number; audit: number }
   | { type: 'compare'; id: number; before: string; after: string }
   | { type: 'write_project'; id: number; project: string }
@@ -159,3 +159,6 @@ export type FromWorker =
   | { type: 'progress'; id: number; stage: string; done: number; total: number }
   | { type: 'done'; id: number; doc: string; ms: number; bytes?: Uint8Array }
   | { type: 'failed'; id: number; error: string };
+
+/** The map layers the worker cuts vector tiles of (the core's `streetTile`, `hotspotTile`). */
+export type TileLayer = 'streets' | 'hotspots';

@@ -56,9 +56,11 @@ self.onmessage = async (ev: MessageEvent<ToWorker>) => {
     return;
   }
   if (msg.type === 'tile') {
-    // One street tile of a held audit for the map (Mapbox Vector Tile bytes), handed over.
+    // One street or hotspot tile of a held audit for the map (Mapbox Vector Tile bytes),
+    // handed over.
     try {
-      const bytes = core.streetTile(msg.audit, msg.z, msg.x, msg.y);
+      const cut = msg.layer === 'hotspots' ? core.hotspotTile : core.streetTile;
+      const bytes = cut(msg.audit, msg.z, msg.x, msg.y);
       (self as unknown as Worker).postMessage({ type: 'done', id: msg.id, doc: '', ms: 0, bytes } satisfies FromWorker, [bytes.buffer]);
     } catch (e) { post({ type: 'failed', id: msg.id, error: String(e) }); }
     return;

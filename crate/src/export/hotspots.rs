@@ -39,6 +39,17 @@ pub struct HotspotFeature<'a> {
     kind: &'static str,
 }
 
+impl HotspotFeature<'_> {
+    /// Children x risk as the feature carries it (rounded to four decimals).
+    pub fn product(&self) -> f64 {
+        self.properties.product
+    }
+    /// The crossing's or side's line.
+    pub fn line(&self) -> &[crate::input::LonLat] {
+        &self.geometry.coordinates
+    }
+}
+
 #[derive(Debug, Serialize)]
 pub struct HotspotLine {
     coordinates: Vec<crate::input::LonLat>,

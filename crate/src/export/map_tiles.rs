@@ -1,6 +1,7 @@
-//! Vector tiles (Mapbox Vector Tile 2.1) of the noded centrelines, cut on demand for the page's
-//! map: the worker answers each tile the map asks for, so the map never holds or tiles a
-//! district's streets as GeoJSON (about 600 MB of the tab for 100 k segments when it did).
+//! Vector tiles (Mapbox Vector Tile 2.1) of the noded centrelines and of the hotspots, cut on
+//! demand for the page's map: the worker answers each tile the map asks for, so the map never
+//! holds or tiles a district's streets or hotspots as GeoJSON (about 600 MB of the tab for
+//! 100 k segments, and 190-280 MB for their 34 000 hotspots, when it did).
 //!
 //! Tiles are addressed as web maps do (z/x/y in Web Mercator, EPSG:3857, y from the north) with
 //! the usual 4 096 units across a tile; each segment carries what the map draws it by and
@@ -25,8 +26,10 @@ pub const MAX_ZOOM: u32 = 16;
 /// collectors are, as general-purpose web maps draw minor streets from about zoom 12 (common
 /// practice).
 pub const MINOR_FROM_ZOOM: u32 = 12;
-/// The name of the tiles' one layer (the map's style reads it as `source-layer`).
+/// The name of the street tiles' one layer (the map's style reads it as `source-layer`).
 pub const LAYER: &str = "streets";
+/// The name of the hotspot tiles' one layer.
+pub const HOTSPOT_LAYER: &str = "hotspots";
 
 /// The segments' bounding boxes in degrees, to find a tile's segments without a scan.
 pub struct SegmentIndex {
@@ -49,6 +52,39 @@ impl SegmentIndex {
             .collect();
         SegmentIndex {
             tree: RTree::bulk_load(boxes),
+        }
+    }
+}
+
+/// The hotspots as the map draws them: a point each (the middle position of its line), with
+/// its index among the features of [`hotspots_geojson`](super::hotspots_geojson) (the page's
+/// popup reads the rest there) and its weight, children x risk over the largest.
+pub struct HotspotIndex {
+    tree: RTree<GeomWithData<[f64; 2], (u32, f64)>>,
+}
+
+impl HotspotIndex {
+    /// Places every hotspot feature with a finite middle position.
+    pub fn build(out: &AuditOutput) -> HotspotIndex {
+        let features: Vec<_> = (0..out.scores.hotspots.len())
+            .filter_map(|i| super::hotspots::hotspot_feature(out, i))
+            .collect();
+        let largest = features
+            .iter()
+            .map(|f| f.product())
+            .fold(1e-9_f64, f64::max);
+        let points = features
+            .iter()
+            .enumerate()
+            .filter_map(|(i, f)| {
+                let line = f.line();
+                let p = *line.get(line.len() / 2)?;
+                (p[0].is_finite() && p[1].is_finite())
+                    .then(|| GeomWithData::new(p, (i as u32, f.product() / largest)))
+            })
+            .collect();
+        HotspotIndex {
+            tree: RTree::bulk_load(points),
         }
     }
 }
@@ -142,6 +178,79 @@ fn clipped_runs(points: &[(f64, f64)], lo: f64, hi: f64) -> Vec<Vec<(f64, f64)>>
     runs
 }
 
+/// Where tile `z/x/y` lies: its box in degrees with the buffer, and the map from degrees to
+/// its units.
+struct TileFrame {
+    z: u32,
+    x: u32,
+    y: u32,
+    n: f64,
+    query: AABB<[f64; 2]>,
+}
+
+impl TileFrame {
+    /// Zoom past [`MAX_ZOOM`] or a tile off the grid is an error.
+    fn new(z: u32, x: u32, y: u32) -> Result<TileFrame, Error> {
+        if z > MAX_ZOOM {
+            return Err(bad_tile(z, x, y, format!("zoom past {MAX_ZOOM}")));
+        }
+        let n = f64::from(1u32 << z);
+        if f64::from(x) >= n || f64::from(y) >= n {
+            return Err(bad_tile(z, x, y, "not on the tile grid"));
+        }
+        let pad = BUFFER / f64::from(EXTENT);
+        let nw = lon_lat((f64::from(x) - pad) / n, (f64::from(y) - pad) / n);
+        let se = lon_lat(
+            (f64::from(x) + 1.0 + pad) / n,
+            (f64::from(y) + 1.0 + pad) / n,
+        );
+        let query = AABB::from_corners([nw[0], se[1]], [se[0], nw[1]]);
+        Ok(TileFrame { z, x, y, n, query })
+    }
+
+    /// A position in the tile's units (y down).
+    fn units(&self, p: LonLat) -> (f64, f64) {
+        let (wx, wy) = world(p);
+        (
+            (wx * self.n - f64::from(self.x)) * f64::from(EXTENT),
+            (wy * self.n - f64::from(self.y)) * f64::from(EXTENT),
+        )
+    }
+
+    fn error(&self, why: impl std::fmt::Display) -> Error {
+        bad_tile(self.z, self.x, self.y, why)
+    }
+}
+
+/// The hotspot tile `z/x/y` as MVT bytes: every hotspot point within the tile and its buffer,
+/// with its index `i` and `weight`. Zoom past [`MAX_ZOOM`] or a tile off the grid is an error.
+pub fn hotspot_tile(index: &HotspotIndex, z: u32, x: u32, y: u32) -> Result<Vec<u8>, Error> {
+    let frame = TileFrame::new(z, x, y)?;
+    let mut hits: Vec<([f64; 2], (u32, f64))> = index
+        .tree
+        .locate_in_envelope(&frame.query)
+        .map(|g| (*g.geom(), g.data))
+        .collect();
+    // The same bytes for the same tile, whatever order the index keeps.
+    hits.sort_unstable_by_key(|h| h.1 .0);
+    let mut tile = Tile::new(EXTENT);
+    let mut layer = tile.create_layer(HOTSPOT_LAYER);
+    for (p, (i, weight)) in hits {
+        let (px, py) = frame.units(p);
+        let geom = GeomEncoder::new(GeomType::Point)
+            .point(px, py)
+            .and_then(|e| e.encode())
+            .map_err(|e| frame.error(e))?;
+        let mut feature = layer.into_feature(geom);
+        feature.set_id(u64::from(i));
+        feature.add_tag_uint("i", u64::from(i));
+        feature.add_tag_double("weight", weight);
+        layer = feature.into_layer();
+    }
+    tile.add_layer(layer).map_err(|e| frame.error(e))?;
+    tile.to_bytes().map_err(|e| frame.error(e))
+}
+
 /// The street tile `z/x/y` as MVT bytes: every segment within the tile and its buffer, clipped
 /// to the buffer, with its `segment`, `class` and `speed_kmh`. Zoom past [`MAX_ZOOM`] or a tile
 /// off the grid is an error.
@@ -152,34 +261,14 @@ pub fn street_tile(
     x: u32,
     y: u32,
 ) -> Result<Vec<u8>, Error> {
-    if z > MAX_ZOOM {
-        return Err(bad_tile(z, x, y, format!("zoom past {MAX_ZOOM}")));
-    }
-    let n = f64::from(1u32 << z);
-    if f64::from(x) >= n || f64::from(y) >= n {
-        return Err(bad_tile(z, x, y, "not on the tile grid"));
-    }
-    let pad = BUFFER / f64::from(EXTENT);
-    let nw = lon_lat((f64::from(x) - pad) / n, (f64::from(y) - pad) / n);
-    let se = lon_lat(
-        (f64::from(x) + 1.0 + pad) / n,
-        (f64::from(y) + 1.0 + pad) / n,
-    );
-    let query = AABB::from_corners([nw[0], se[1]], [se[0], nw[1]]);
+    let frame = TileFrame::new(z, x, y)?;
     let mut hits: Vec<u32> = index
         .tree
-        .locate_in_envelope_intersecting(&query)
+        .locate_in_envelope_intersecting(&frame.query)
         .map(|g| g.data)
         .collect();
     // The same bytes for the same tile, whatever order the index keeps.
     hits.sort_unstable();
-    let to_tile = |p: LonLat| {
-        let (wx, wy) = world(p);
-        (
-            (wx * n - f64::from(x)) * f64::from(EXTENT),
-            (wy * n - f64::from(y)) * f64::from(EXTENT),
-        )
-    };
     let lo = -BUFFER;
     let hi = f64::from(EXTENT) + BUFFER;
     let mut tile = Tile::new(EXTENT);
@@ -200,7 +289,7 @@ pub fn street_tile(
             .line
             .iter()
             .filter(|p| p[0].is_finite() && p[1].is_finite())
-            .map(|p| to_tile(*p))
+            .map(|p| frame.units(*p))
             .collect();
         let runs = clipped_runs(&points, lo, hi);
         if runs.is_empty() {
@@ -209,11 +298,11 @@ pub fn street_tile(
         let mut enc = GeomEncoder::new(GeomType::Linestring);
         for run in &runs {
             for &(px, py) in run {
-                enc.add_point(px, py).map_err(|e| bad_tile(z, x, y, e))?;
+                enc.add_point(px, py).map_err(|e| frame.error(e))?;
             }
-            enc.complete_geom().map_err(|e| bad_tile(z, x, y, e))?;
+            enc.complete_geom().map_err(|e| frame.error(e))?;
         }
-        let geom = enc.encode().map_err(|e| bad_tile(z, x, y, e))?;
+        let geom = enc.encode().map_err(|e| frame.error(e))?;
         // A MoveTo and one LineTo at least (3 + 3 integers): a segment that clips to a point,
         // or rounds to one at this zoom, is not drawn.
         if geom.len() < 6 {
@@ -226,8 +315,8 @@ pub fn street_tile(
         feature.add_tag_double("speed_kmh", street.speed_kmh);
         layer = feature.into_layer();
     }
-    tile.add_layer(layer).map_err(|e| bad_tile(z, x, y, e))?;
-    tile.to_bytes().map_err(|e| bad_tile(z, x, y, e))
+    tile.add_layer(layer).map_err(|e| frame.error(e))?;
+    tile.to_bytes().map_err(|e| frame.error(e))
 }
 
 #[cfg(test)]
