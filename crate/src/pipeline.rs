@@ -121,6 +121,31 @@ pub fn run_audit(
     progress: &mut dyn Progress,
 ) -> Result<AuditOutput> {
     let t0 = progress.now_ms();
+    let read = read_all(raw, config, progress)?;
+    audit_read(read, t0, config, progress)
+}
+
+/// [`run_audit`] that lets go of the layers' text once it is read: the page's worker, whose
+/// memory never shrinks, then audits a district in about 50 MB less.
+pub fn run_audit_owned(
+    raw: RawLayers,
+    config: &Config,
+    progress: &mut dyn Progress,
+) -> Result<AuditOutput> {
+    let t0 = progress.now_ms();
+    let read = read_all(&raw, config, progress)?;
+    drop(raw);
+    audit_read(read, t0, config, progress)
+}
+
+/// The layers as read, their warnings and the interventions, if any.
+type Read = (
+    Layers,
+    Vec<Warning>,
+    Option<Vec<crate::scenario::Intervention>>,
+);
+
+fn read_all(raw: &RawLayers, config: &Config, progress: &mut dyn Progress) -> Result<Read> {
     config.validate()?;
     if !progress.report(Stage::Parsing, 0, 1) {
         return Err(Error::Cancelled);
@@ -134,6 +159,16 @@ pub fn run_audit(
         Some(text) => Some(crate::scenario::read::read_interventions(text)?),
         None => None,
     };
+    Ok((layers, warnings, interventions))
+}
+
+/// The audit of layers read by [`read_all`] from `t0` on.
+fn audit_read(
+    (layers, warnings, interventions): Read,
+    t0: f64,
+    config: &Config,
+    progress: &mut dyn Progress,
+) -> Result<AuditOutput> {
     let t1 = progress.now_ms();
     let mut out = match interventions {
         Some(list) => crate::scenario::reaudit::audit_overlay(

@@ -7,7 +7,7 @@ use crate::config::Config;
 use crate::error::{Error, Location};
 use crate::export;
 use crate::input::{HomesFormat, Preset, RawLayers};
-use crate::pipeline::{run_audit, AuditOutput, Progress, Stage};
+use crate::pipeline::{run_audit_owned, AuditOutput, Progress, Stage};
 use crate::score::plan::plan_upgrades;
 use serde::Deserialize;
 use serde_json::{json, Value};
@@ -187,10 +187,11 @@ pub fn caution() -> String {
 }
 
 /// Grows the wasm memory once, before an audit, to about what an audit of `layers_bytes` of
-/// layers needs (13 bytes per byte of layers text: 364 MB for the 28 MB page layers of a
-/// 100 k-segment, 50 000-home district whose audit, document written, peaks at 384 MB without
-/// this; 16 bytes overshot to 491 MB), by taking one block and giving it back to the
-/// allocator.
+/// layers needs (12 bytes per byte of layers text: 368 MB for the 30.7 MB page layers of a
+/// 100 k-segment, 50 000-home district whose audit, document written, peaks at 367.5 MB
+/// without this, in Node; it peaked at 480 MB before the layers' text was let go once read and
+/// the document was written into a buffer of its exact size), by taking one block and giving
+/// it back to the allocator.
 /// Rust's wasm allocator grows memory by little more than each allocation needs, and each
 /// `memory.grow` is dear in the JavaScript engine: without this, the first audit of that
 /// district spent about half its routing time growing memory (10.5 s against 5.7 s for the
@@ -198,20 +199,22 @@ pub fn caution() -> String {
 /// shrinks in wasm, and the audit reaches this size anyway.
 fn reserve_heap(layers_bytes: usize) {
     let have = core::arch::wasm32::memory_size(0) * 65536;
-    let want = layers_bytes.saturating_mul(13).min(1 << 30);
+    let want = layers_bytes.saturating_mul(12).min(1 << 30);
     if want > have + (have / 4) {
         drop(std::hint::black_box(Vec::<u8>::with_capacity(want - have)));
     }
 }
 
-/// Reads the page's layers and config and runs the audit.
+/// Reads the page's layers and config and runs the audit. The layers document is owned so
+/// that it, and then the layers' text, are let go once read.
 fn run(
-    layers_json: &str,
+    layers_json: String,
     config_json: &str,
     progress: &js_sys::Function,
 ) -> Result<AuditOutput, JsValue> {
     reserve_heap(layers_json.len());
-    let page: PageLayers = serde_json::from_str(layers_json).map_err(to_js)?;
+    let page: PageLayers = serde_json::from_str(&layers_json).map_err(to_js)?;
+    drop(layers_json);
     let raw = RawLayers::try_from(page).map_err(error_to_js)?;
     let config = if config_json.trim().is_empty() {
         Config::default()
@@ -219,14 +222,14 @@ fn run(
         Config::from_json(config_json).map_err(error_to_js)?
     };
     let mut p = JsProgress { callback: progress };
-    run_audit(&raw, &config, &mut p).map_err(error_to_js)
+    run_audit_owned(raw, &config, &mut p).map_err(error_to_js)
 }
 
 /// Runs the audit and the upgrade planner with a budget of `budget` upgrades; returns the
 /// plan as the command line's `plan.json`.
 #[wasm_bindgen]
 pub fn plan(
-    layers_json: &str,
+    layers_json: String,
     config_json: &str,
     budget: usize,
     progress: &js_sys::Function,
@@ -236,6 +239,48 @@ pub fn plan(
     let mut doc = export::plan_json(&out, &plan);
     doc["interventions"] = crate::scenario::from_plan::plan_interventions(&out, &plan);
     serde_json::to_string(&doc).map_err(to_js)
+}
+
+/// The layers as read, for the page's panels and map (keys in alphabetical order, as the
+/// `json!` map that this replaced wrote them), serialised straight from the audit's own.
+#[derive(serde::Serialize)]
+struct LayersDoc<'a> {
+    catchments: Vec<CatchmentDoc<'a>>,
+    crashes: &'a [crate::input::observed::Crash],
+    crossings: &'a [crate::input::CrossingPoint],
+    homes: &'a [crate::input::Home],
+    rail_crossings: &'a [crate::input::observed::RailCrossing],
+    schools: &'a [crate::input::School],
+}
+
+/// Which feature of the catchments layer belongs to which school.
+#[derive(serde::Serialize)]
+struct CatchmentDoc<'a> {
+    feature: usize,
+    school_id: &'a str,
+}
+
+/// Counts the bytes written to it.
+struct ByteCount(usize);
+impl std::io::Write for ByteCount {
+    fn write(&mut self, b: &[u8]) -> std::io::Result<usize> {
+        self.0 += b.len();
+        Ok(b.len())
+    }
+    fn flush(&mut self) -> std::io::Result<()> {
+        Ok(())
+    }
+}
+
+/// `v` as JSON text written into a buffer of exactly its size: a growing buffer of a
+/// district's 34 MB document would hold up to twice that, old and new, while it is copied,
+/// and the worker's memory keeps its peak.
+fn exact_json<T: serde::Serialize>(v: &T) -> Result<String, JsValue> {
+    let mut count = ByteCount(0);
+    serde_json::to_writer(&mut count, v).map_err(to_js)?;
+    let mut text = Vec::with_capacity(count.0);
+    serde_json::to_writer(&mut text, v).map_err(to_js)?;
+    String::from_utf8(text).map_err(to_js)
 }
 
 /// The page's audit document; the large collections serialise straight to text.
@@ -254,7 +299,7 @@ struct AuditDoc<'a> {
     /// The named streets as drawn, with their names (labels, the find box).
     street_names: export::layers_geojson::Collection<export::layers_geojson::NameProps<'a>>,
     hotspots: export::hotspots::HotspotCollection<'a>,
-    layers: Value,
+    layers: LayersDoc<'a>,
     warnings: &'a [crate::error::Warning],
     /// What a re-audit did (absent for a full audit).
     #[serde(skip_serializing_if = "Option::is_none")]
@@ -276,7 +321,7 @@ struct AuditDoc<'a> {
 /// `{message, at}` JSON.
 #[wasm_bindgen]
 pub fn audit(
-    layers_json: &str,
+    layers_json: String,
     config_json: &str,
     progress: &js_sys::Function,
 ) -> Result<String, JsValue> {
@@ -478,22 +523,28 @@ fn audit_doc(out: &AuditOutput, audit_id: u32, extra: Option<Value>) -> Result<S
         bounds: export::layers_geojson::centrelines_bounds(out),
         street_names: export::layers_geojson::street_names_geojson(out),
         hotspots: export::hotspots_geojson(out),
-        layers: json!({
-            "crossings": out.layers.crossings,
-            "schools": out.layers.schools,
-            "homes": out.layers.homes,
-            "catchments": out.layers.catchments.iter()
-                .map(|c| json!({ "feature": c.feature, "school_id": c.school_id }))
-                .collect::<Vec<_>>(),
-            "crashes": out.layers.crashes,
-            "rail_crossings": out.layers.rail_crossings,
-        }),
+        layers: LayersDoc {
+            catchments: out
+                .layers
+                .catchments
+                .iter()
+                .map(|c| CatchmentDoc {
+                    feature: c.feature,
+                    school_id: &c.school_id,
+                })
+                .collect(),
+            crashes: &out.layers.crashes,
+            crossings: &out.layers.crossings,
+            homes: &out.layers.homes,
+            rail_crossings: &out.layers.rail_crossings,
+            schools: &out.layers.schools,
+        },
         warnings: &out.warnings,
         reaudit: extra,
         csv_metadata: export::csvw::audit_metadata().into_iter().collect(),
         core_memory_bytes: core::arch::wasm32::memory_size(0) * 65536,
     };
-    serde_json::to_string(&doc).map_err(to_js)
+    exact_json(&doc)
 }
 
 /// Re-audits the last audit's layers with `interventions_geojson` (the scenario's whole list,
@@ -568,7 +619,7 @@ pub fn project_interventions(
 /// the wasm core against the native one on the same layers without building the page's
 /// documents).
 #[wasm_bindgen]
-pub fn audit_timings(layers_json: &str, config_json: &str) -> Result<String, JsValue> {
+pub fn audit_timings(layers_json: String, config_json: &str) -> Result<String, JsValue> {
     let noop = js_sys::Function::new_no_args("return true");
     let out = run(layers_json, config_json, &noop)?;
     let routed = out.homes.iter().filter(|h| h.shortest.is_some()).count();
