@@ -228,3 +228,22 @@ fn streamed_layers_are_their_collections_one_feature_per_line() {
     assert!(n_hotspots > 2048, "{n_hotspots} hotspots");
     assert_eq!(routes["caution"], catchwalk::CAUTION);
 }
+
+#[test]
+fn an_audit_that_lets_go_of_its_text_gives_the_same_results() {
+    // The page's worker audits with `run_audit_owned` (the layers' text dropped once read).
+    let raw = synthetic_layers();
+    let kept = match run_audit(&raw, &Config::default(), &mut Silent) {
+        Ok(o) => o,
+        Err(e) => panic!("audit: {e}"),
+    };
+    let owned = match catchwalk::pipeline::run_audit_owned(raw, &Config::default(), &mut Silent) {
+        Ok(o) => o,
+        Err(e) => panic!("audit: {e}"),
+    };
+    assert!(kept.homes.iter().filter(|h| h.shortest.is_some()).count() > 1_000);
+    assert_eq!(kept.homes, owned.homes);
+    assert_eq!(kept.warnings, owned.warnings);
+    assert_eq!(homes_csv(&kept), homes_csv(&owned));
+    assert_eq!(summary_figures(&kept), summary_figures(&owned));
+}
