@@ -181,7 +181,7 @@ test('single-file build: street names from the inlined glyphs', async () => {
   await page.context().close();
 });
 
-test('hotspots drawn from the worker\'s tiles: each one sized by its weight, a click opens its popup', async () => {
+test('hotspots drawn from the worker\'s tiles: each one sized by its weight, a click opens its popup; a home\'s figures fit a laptop', async () => {
   const { page, leaks, errors } = await guardedPage(browser, { width: 1366, height: 768 });
   await page.goto(base);
   await page.waitForFunction(() => document.body.dataset.audit === 'idle');
@@ -215,6 +215,16 @@ test('hotspots drawn from the worker\'s tiles: each one sized by its weight, a c
   assert.match(popup, new RegExp(`Hotspot: #${shown.rank} `), popup);
   assert.ok(popup.includes(shown.street), popup);
   await page.screenshot({ path: join(shots, '19-laptop-hotspot-popup.png') });
+  // At 1366 px a home's three routes fit the panel: the last column ends inside it.
+  const homeId = (await page.evaluate(() => window.catchwalk.homes()))[5].id;
+  await page.evaluate((id) => window.catchwalk.select('home', id), homeId);
+  await page.waitForSelector('#home-figures');
+  const fit = await page.evaluate(() => {
+    const panel = document.querySelector('#selection').getBoundingClientRect();
+    const cells = [...document.querySelectorAll('#home-figures th, #home-figures td')].map((c) => c.getBoundingClientRect().right);
+    return { panel: panel.right, last: Math.max(...cells) };
+  });
+  assert.ok(fit.last <= fit.panel + 0.5, `the home's figures end at ${fit.last} px, the panel at ${fit.panel} px`);
   assert.deepEqual(leaks, [], 'no request leaves 127.0.0.1');
   assert.deepEqual(errors, [], 'no errors in the page');
   await page.context().close();

@@ -7,9 +7,13 @@ import type { RouteProps } from './types';
 
 const deviceLabel = (k: string) => DEVICES.find((d) => d.key === k)?.label ?? k;
 
+/** A soft hyphen inside words too long for a third of the panel: at a laptop's 1366 px the
+ * three routes' columns are about 75 px wide, and a long word would push the last one out. */
+const breakable = (s: string) => s.replace('uncontrolled', 'un\u00adcontrolled').replace('Recommended', 'Recom\u00admended');
+
 function crossingsText(r: RouteProps | undefined): string {
   if (!r) return '–';
-  const parts = Object.entries(r.crossings_by_device ?? {}).map(([k, n]) => `${n} ${deviceLabel(k)}`);
+  const parts = Object.entries(r.crossings_by_device ?? {}).map(([k, n]) => `${n} ${breakable(deviceLabel(k))}`);
   return parts.length ? parts.join('; ') : 'none';
 }
 
@@ -48,7 +52,7 @@ export function homePanel(view: View, h: HomeView, routes: Routes): HTMLElement 
   const table = el(
     'table',
     { class: 'figures', id: 'home-figures' },
-    el('thead', {}, el('tr', {}, el('th', {}, ''), el('th', { class: 'k-short' }, 'Shortest'), el('th', { class: 'k-rec' }, 'Recommended'),
+    el('thead', {}, el('tr', {}, el('th', {}, ''), el('th', { class: 'k-short' }, 'Shortest'), el('th', { class: 'k-rec' }, breakable('Recommended')),
       el('th', { class: 'k-safe' }, 'Safe'))),
     el('tbody', {}, ...ROWS.map(([label, f]) => el('tr', { 'data-row': label }, el('th', {}, label), el('td', {}, f(s)), el('td', {}, f(r)),
       el('td', {}, sf ? f(sf) : '–')))),
