@@ -457,6 +457,15 @@ fn held_audit<'a>(
         })
 }
 
+/// The map index kept in `slot` for `audit_id`, built by `build` when the slot holds none or
+/// another audit's (the map asks for tiles of the audit shown, one at a time).
+fn index_of<T>(slot: &mut Option<(u32, T)>, audit_id: u32, build: impl FnOnce() -> T) -> &T {
+    if slot.as_ref().is_some_and(|(id, _)| *id != audit_id) {
+        *slot = None;
+    }
+    &slot.get_or_insert_with(|| (audit_id, build())).1
+}
+
 /// The street tile `z/x/y` of a held audit's centrelines as Mapbox Vector Tile bytes
 /// ([`export::map_tiles`]): the page's map asks for each tile it draws, so neither the page nor
 /// the map holds a district's segments. The segment index is built on the first tile asked of
@@ -467,11 +476,9 @@ pub fn street_tile(audit_id: u32, z: u32, x: u32, y: u32) -> Result<Vec<u8>, JsV
         let mut held = held.borrow_mut();
         let Held { audits, tiles, .. } = &mut *held;
         let out = held_audit(audits, audit_id, "")?;
-        if tiles.as_ref().is_some_and(|(id, _)| *id != audit_id) {
-            *tiles = None;
-        }
-        let (_, index) =
-            tiles.get_or_insert_with(|| (audit_id, export::map_tiles::SegmentIndex::build(out)));
+        let index = index_of(tiles, audit_id, || {
+            export::map_tiles::SegmentIndex::build(out)
+        });
         export::map_tiles::street_tile(out, index, z, x, y).map_err(error_to_js)
     })
 }
@@ -490,14 +497,9 @@ pub fn hotspot_tile(audit_id: u32, z: u32, x: u32, y: u32) -> Result<Vec<u8>, Js
             ..
         } = &mut *held;
         let out = held_audit(audits, audit_id, "")?;
-        if hotspot_tiles
-            .as_ref()
-            .is_some_and(|(id, _)| *id != audit_id)
-        {
-            *hotspot_tiles = None;
-        }
-        let (_, index) = hotspot_tiles
-            .get_or_insert_with(|| (audit_id, export::map_tiles::HotspotIndex::build(out)));
+        let index = index_of(hotspot_tiles, audit_id, || {
+            export::map_tiles::HotspotIndex::build(out)
+        });
         export::map_tiles::hotspot_tile(index, z, x, y).map_err(error_to_js)
     })
 }

@@ -7,25 +7,18 @@ use catchwalk::export::centrelines_geojson;
 use catchwalk::export::layers_geojson::{
     centreline_feature, centrelines_bounds, street_names_geojson,
 };
-use catchwalk::input::{HomesFormat, RawLayers};
-use catchwalk::pipeline::{run_audit, AuditOutput, Silent};
+use catchwalk::pipeline::{audit_layers, AuditOutput, Silent};
 use geo::BoundingRect;
 use serde_json::Value;
+
+mod common;
 
 fn demo(file: &str) -> String {
     std::fs::read_to_string(format!("../sample-maps/demo-town/{file}")).unwrap_or_default()
 }
 
 fn demo_audit() -> AuditOutput {
-    let raw = RawLayers {
-        streets: demo("streets.geojson"),
-        crossings: Some(demo("crossings.geojson")),
-        schools: demo("schools.geojson"),
-        homes: demo("homes.geojson"),
-        homes_format: HomesFormat::GeoJson,
-        ..RawLayers::default()
-    };
-    match run_audit(&raw, &Config::default(), &mut Silent) {
+    match audit_layers(common::demo_town(), &Config::default(), &mut Silent) {
         Ok(o) => o,
         Err(e) => panic!("demo town audit: {e}"),
     }

@@ -51,8 +51,12 @@ function toLineM(p, line) {
   return best;
 }
 
-/** The demo town audited by the wasm build (held by it) and by the command line (its folder). */
-async function audited() {
+/** The demo town audited by the wasm build (held by it) and by the command line (its folder),
+ * once for both tests. */
+let both = null;
+const audited = () => (both ??= audit());
+
+async function audit() {
   const core = await import(pathToFileURL(join(wasmDir, 'catchwalk.js')).href);
   core.initSync({ module: readFileSync(join(wasmDir, 'catchwalk_bg.wasm')) });
   const doc = JSON.parse(core.audit(layers, '', () => true));

@@ -8,10 +8,11 @@
 //   HEAPPROF: /tmp/catchwalk-heap.json (live allocations of the page's thread by call stack).
 // Prints the samples, when the results showed and the map went idle, and the peak.
 
-import { existsSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { guardedPage, launch } from '../../tests/browser/helpers.mjs';
+import { rendererMemory } from './renderer.mjs';
 import { serve } from '../serve.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
@@ -22,18 +23,7 @@ const block = list(process.env.BLOCK);
 const hide = list(process.env.HIDE);
 
 /** Resident memory (MB) of the largest of Chromium's renderer processes (the tab). */
-function rendererMb() {
-  let kb = 0;
-  for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
-    try {
-      const cmd = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
-      if (!cmd.includes('chromium') || !cmd.includes('--type=renderer')) continue;
-      const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
-      if (m) kb = Math.max(kb, Number(m[1]));
-    } catch { /* the process ended */ }
-  }
-  return Math.round(kb / 1024);
-}
+const rendererMb = () => rendererMemory('VmRSS').mb;
 
 const t0 = Date.now();
 let peak = 0;

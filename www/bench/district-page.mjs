@@ -5,10 +5,11 @@
 // home's and one catchment's routes (asked of the worker), and the peak memory of Chromium's
 // renderer processes (the tab and its worker) read from /proc.
 
-import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, writeFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { guardedPage, launch } from '../../tests/browser/helpers.mjs';
+import { rendererMemory } from './renderer.mjs';
 import { serve } from '../serve.mjs';
 
 const here = dirname(fileURLToPath(import.meta.url));
@@ -49,17 +50,8 @@ for (const [k, f] of Object.entries({ streets, crossings, schools, homes })) wri
 /** Peak resident memory (VmHWM, MB) of the largest of Chromium's renderer processes (the
  * tab; its workers are threads in it), and how many renderer processes there were. */
 function rendererPeakMb() {
-  let kb = 0;
-  let n = 0;
-  for (const pid of readdirSync('/proc').filter((d) => /^\d+$/.test(d))) {
-    try {
-      const cmd = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
-      if (!cmd.includes('chromium') || !cmd.includes('--type=renderer')) continue;
-      const m = /VmHWM:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
-      if (m) { kb = Math.max(kb, Number(m[1])); n += 1; }
-    } catch { /* the process ended */ }
-  }
-  return `${Math.round(kb / 1024)} (largest of ${n})`;
+  const { mb, processes } = rendererMemory('VmHWM');
+  return `${mb} (largest of ${processes})`;
 }
 
 const server = await serve(join(here, '..', 'build'), 0);

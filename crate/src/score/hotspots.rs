@@ -72,8 +72,7 @@ pub fn hotspots(
     streets: &[Street],
     config: &Config,
 ) -> Vec<Hotspot> {
-    // Per edge: (children, product), and its risk points once walked (`walked` lists those
-    // edges). Dense arrays over the graph's edges: a county's routes take millions of steps.
+    // Dense arrays over the graph's edges: a county's routes take millions of steps.
     let n = graph.edges.len();
     let recommended = || {
         homes.iter().zip(layer_homes).filter_map(|(h, home)| {
@@ -82,12 +81,12 @@ pub fn hotspots(
         })
     };
     // The edges walked, in the order first walked; their risk points on every core natively.
-    let mut risk_of: Vec<Option<f64>> = vec![None; n];
+    let mut is_walked = vec![false; n];
     let mut walked: Vec<u32> = Vec::new();
     for (_, steps) in recommended() {
         for step in steps.iter() {
-            if let Some(r @ None) = risk_of.get_mut(step.edge as usize) {
-                *r = Some(0.0);
+            if let Some(seen @ false) = is_walked.get_mut(step.edge as usize) {
+                *seen = true;
                 walked.push(step.edge);
             }
         }
@@ -97,9 +96,10 @@ pub fn hotspots(
             edge_risk_points(graph, edge, streets, &config.risk)
         })
     });
+    let mut risk_of = vec![0.0; n];
     for (&e, r) in walked.iter().zip(risks) {
         if let Some(slot) = risk_of.get_mut(e as usize) {
-            *slot = Some(r);
+            *slot = r;
         }
     }
     // Per edge (children, product), summed in home order.
@@ -107,7 +107,7 @@ pub fn hotspots(
     for (w, steps) in recommended() {
         for step in steps.iter() {
             let k = step.edge as usize;
-            let (Some(edge), Some(Some(r))) = (graph.edges.get(k), risk_of.get(k).copied()) else {
+            let (Some(edge), Some(&r)) = (graph.edges.get(k), risk_of.get(k)) else {
                 continue;
             };
             if r <= 0.0 {
@@ -167,7 +167,7 @@ pub fn hotspots(
             speed_kmh: street.speed_kmh,
             lanes: street.lanes,
             children,
-            risk: risk_of.get(e as usize).copied().flatten().unwrap_or(0.0),
+            risk: risk_of.get(e as usize).copied().unwrap_or(0.0),
             product,
             wait_s,
             los,
