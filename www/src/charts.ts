@@ -155,16 +155,15 @@ export function drawCharts(view: View) {
     },
   }));
 
-  const hot = [...view.hotspots]
-    .map((f) => {
-      const p = f.properties;
-      const control = String(p['control'] ?? '').replace('sidewalk_absent', 'no sidewalk').replace('sidewalk_unknown', 'sidewalk?').replace(/_/g, ' ');
-      const what = p['kind'] === 'crossing' ? `× ${control}` : `side, ${control}`;
-      const street = String(p['street'] ?? '');
-      return { label: `${String(p['rank'] ?? '')}. ${street.length > 16 ? `${street.slice(0, 15)}…` : street} ${what}`, v: Number(p['product'] ?? 0) };
-    })
-    .sort((a, b) => b.v - a.v)
-    .slice(0, 10);
+  // The hotspots come ranked by children × risk: the first ten are the top ten (a district has
+  // tens of thousands). A label stays within the third of the chart its axis may take.
+  const clip = (s: string, n: number) => (s.length > n ? `${s.slice(0, n - 1)}…` : s);
+  const hot = view.hotspots.slice(0, 10).map((f) => {
+    const p = f.properties;
+    const control = String(p['control'] ?? '').replace('sidewalk_absent', 'no sidewalk').replace('sidewalk_unknown', 'sidewalk?').replace(/_/g, ' ');
+    const what = p['kind'] === 'crossing' ? ` × ${control}` : `, ${control}`;
+    return { label: clip(`${String(p['rank'] ?? '')}. ${clip(String(p['street'] ?? ''), 14)}${what}`, 28), v: Number(p['product'] ?? 0) };
+  });
   replace('c-hotspots', (canvas) => new Chart(canvas, {
     type: 'bar',
     data: { labels: hot.map((h) => h.label), datasets: [{ label: 'children × risk', data: hot.map((h) => h.v), backgroundColor: HOTSPOT_COLOR }] },
